@@ -1,0 +1,379 @@
+"""Run a catalogue function exactly as a spreadsheet cell would.
+
+Cell values in: ``float``/``int`` for numbers, ``str`` for texts, ``bool``,
+``None`` for an empty cell, and a 2-D list (rows of cells) for a range.
+Cell values out: a ``float`` or ``str`` for one cell, a 2-D list for a range
+or a table.  Nothing raises: every failure becomes a text that starts with
+``FS error:`` and says what is wrong and what is allowed, in the cell that
+failed and not in its neighbours.
+
+How an element-wise call goes
+-----------------------------
+1. Each ``number``/``text`` argument becomes an array of values plus an array
+   of per-element error texts (empty cell, text where a number belongs, value
+   out of its declared range).
+2. The arguments are broadcast together by numpy's rules (a row and a column
+   give a grid, as the spreadsheet's own array formulas do).
+3. Elements without an error are grouped by their grouped arguments (texts,
+   ``group=True`` numbers) and the function runs once per group on 1-D
+   arrays.
+4. When the function refuses a group (:class:`FuelsysInputError`), the group
+   is run again element by element so that only the bad elements show the
+   error.  This slow path runs only when something is wrong.
+5. Results that are not finite become error texts; never a silent NaN.
+"""
+
+from __future__ import annotations
+
+import math
+import warnings
+
+import numpy as np
+
+from fuelsys.errors import FuelsysInputError, ValidityWarning
+from fuelsys.sheet import catalogue
+
+ERROR_PREFIX = "FS error: "
+
+#: When True, unexpected exceptions (bugs) propagate instead of becoming an
+#: ``FS error: internal error`` text.  The test suite sets it.
+STRICT = False
+
+
+class CellError(Exception):
+    """A whole-call error with the text to show in the cell."""
+
+
+def error_text(message: str) -> str:
+    message = str(message).strip()
+    return message if message.startswith(ERROR_PREFIX) else ERROR_PREFIX + message
+
+
+def is_error(value) -> bool:
+    """True for an ``FS error:`` text."""
+    return isinstance(value, str) and value.startswith(ERROR_PREFIX)
+
+
+# ---------------------------------------------------------------------------
+# cell values -> arrays
+
+def _is_range(value) -> bool:
+    return isinstance(value, (list, tuple, np.ndarray)) and not isinstance(value, str)
+
+
+def _as_grid(value) -> list[list]:
+    """A range as a rectangular list of rows (a flat list is one column)."""
+    if isinstance(value, np.ndarray):
+        value = value.tolist()
+    rows = list(value)
+    if not rows:
+        raise CellError("an empty range was given")
+    if not all(_is_range(r) for r in rows):
+        rows = [[r] for r in rows]
+    rows = [list(r.tolist() if isinstance(r, np.ndarray) else r) for r in rows]
+    width = len(rows[0])
+    if width == 0 or any(len(r) != width for r in rows):
+        raise CellError("a range must be rectangular")
+    return rows
+
+
+def _describe(value) -> str:
+    if isinstance(value, bool):
+        return "TRUE" if value else "FALSE"
+    if isinstance(value, str):
+        return f'text "{value[:30]}"'
+    return repr(value)
+
+
+def _number_or_error(arg: catalogue.Arg, value):
+    """One cell -> (float, None) or (nan, message)."""
+    unit = "" if arg.unit == "-" else f" in {arg.unit}"
+    if value is None or (isinstance(value, str) and value.strip() == ""):
+        return math.nan, f"{arg.name} is empty; a number{unit} is required"
+    if isinstance(value, bool) or not isinstance(value, (int, float, np.integer, np.floating)):
+        if is_error(value):
+            return math.nan, f"{arg.name} refers to a cell that failed ({value[len(ERROR_PREFIX):]})"
+        return math.nan, f"{arg.name} must be a number{unit} (got {_describe(value)})"
+    x = float(value)
+    if not math.isfinite(x):
+        return math.nan, f"{arg.name} must be a finite number{unit} (got {x})"
+    rng = arg.range_text()
+    u = "" if arg.unit == "-" else f" {arg.unit}"
+    if ((arg.gt is not None and not x > arg.gt) or (arg.lt is not None and not x < arg.lt)
+            or (arg.low is not None and x < arg.low) or (arg.high is not None and x > arg.high)
+            or (arg.integer and x != round(x))):
+        return math.nan, f"{arg.name} must be {rng}{u} (got {x:g})"
+    return x, None
+
+
+def _text_or_error(arg: catalogue.Arg, value):
+    if value is None or (isinstance(value, str) and value.strip() == ""):
+        allowed = f" ({arg.range_text()})" if arg.choices else ""
+        return None, f"{arg.name} is empty; a text is required{allowed}"
+    if not isinstance(value, str):
+        if isinstance(value, (int, float)) and not isinstance(value, bool):
+            value = f"{value:g}"
+        else:
+            return None, f"{arg.name} must be a text (got {_describe(value)})"
+    if is_error(value):
+        return None, f"{arg.name} refers to a cell that failed ({value[len(ERROR_PREFIX):]})"
+    text = value.strip()
+    if arg.choices:
+        low = {c.lower(): c for c in arg.choices}
+        if text.lower() not in low:
+            return None, f"{arg.name} must be {arg.range_text()} (got \"{text[:30]}\")"
+        text = low[text.lower()]
+    return text, None
+
+
+def _elementwise_arg(arg: catalogue.Arg, value):
+    """-> (values array, errors object array), both of the cell's shape."""
+    conv = _number_or_error if arg.kind == "number" else _text_or_error
+    if _is_range(value):
+        grid = _as_grid(value)
+        pairs = [[conv(arg, v) for v in row] for row in grid]
+        dtype = float if arg.kind == "number" else object
+        vals = np.array([[p[0] for p in row] for row in pairs], dtype=dtype)
+        errs = np.array([[p[1] for p in row] for row in pairs], dtype=object)
+        return vals, errs
+    v, e = conv(arg, value)
+    return np.array(v, dtype=float if arg.kind == "number" else object), np.array(e, dtype=object)
+
+
+def _range_arg(arg: catalogue.Arg, value) -> np.ndarray:
+    grid = _as_grid(value) if _is_range(value) else [[value]]
+    out = []
+    for row in grid:
+        for v in row:
+            if v is None or (isinstance(v, str) and v.strip() == ""):
+                continue
+            x, err = _number_or_error(arg, v)
+            if err:
+                raise CellError(err)
+            out.append(x)
+    if not out:
+        raise CellError(f"{arg.name} holds no numbers; a range of numbers in {arg.unit} is required")
+    return np.array(out, dtype=float)
+
+
+def _fuel_arg(arg: catalogue.Arg, value):
+    from fuelsys.fuels import get_fuel
+
+    if value is None or (isinstance(value, str) and not value.strip()):
+        raise CellError(f"{arg.name} is empty; a fuel name or a fuel table range is required")
+    if is_error(value):
+        raise CellError(f"{arg.name} refers to a cell that failed ({value[len(ERROR_PREFIX):]})")
+    if _is_range(value):
+        grid = _as_grid(value)
+        if len(grid) == 1 and len(grid[0]) == 1:
+            return _fuel_arg(arg, grid[0][0])
+        if len(grid[0]) < 2:
+            raise CellError(f"{arg.name}: a fuel table needs two columns (label, value)")
+        return get_fuel([row[:2] for row in grid])
+    if not isinstance(value, str):
+        raise CellError(f"{arg.name} must be a fuel name or a fuel table range (got {_describe(value)})")
+    return get_fuel(value.strip())
+
+
+# ---------------------------------------------------------------------------
+# results -> cell values
+
+def _cell_out(x, returns_kind: str):
+    """One result element -> a cell value (float, str) or an error text."""
+    if isinstance(x, (str, np.str_)):
+        return str(x)
+    if x is None:
+        return ""
+    if isinstance(x, (bool, np.bool_)):
+        return bool(x)
+    try:
+        f = float(x)
+    except (TypeError, ValueError):
+        return error_text(f"internal error: result of type {type(x).__name__}")
+    if not math.isfinite(f):
+        return error_text("no finite result for these inputs (the calculation is undefined here)")
+    return f
+
+
+def _table_out(result) -> object:
+    if isinstance(result, np.ndarray):
+        result = result.tolist()
+    if not _is_range(result):
+        return _cell_out(result, "table")
+    rows = [list(r) if _is_range(r) else [r] for r in result]
+    out = [[_cell_out(v, "table") for v in row] for row in rows]
+    width = max(len(r) for r in out) if out else 0
+    out = [r + [""] * (width - len(r)) for r in out]
+    if len(out) == 1 and len(out[0]) == 1:
+        return out[0][0]
+    return out
+
+
+# ---------------------------------------------------------------------------
+# the call
+
+def _bind(spec: catalogue.Spec, cells: tuple) -> list:
+    if len(cells) > len(spec.args):
+        raise CellError(f"{spec.name} takes at most {len(spec.args)} arguments (got {len(cells)}): {spec.signature()}")
+    values = list(cells) + [None] * (len(spec.args) - len(cells))
+    bound = []
+    for arg, v in zip(spec.args, values):
+        empty = v is None or (isinstance(v, str) and v == "")
+        if empty and not arg.required:
+            v = _Default(arg.default)
+        elif empty and arg.required and len(cells) <= spec.args.index(arg):
+            raise CellError(f"{arg.name} is missing: {spec.signature()}")
+        bound.append(v)
+    return bound
+
+
+class _Default:
+    """An omitted optional argument: its declared default, passed as it is."""
+
+    __slots__ = ("value",)
+
+    def __init__(self, value):
+        self.value = value
+
+
+def _run(spec, kwargs):
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", ValidityWarning)
+        return spec.impl(**kwargs)
+
+
+def _call_table(spec, bound):
+    kwargs = {}
+    for arg, v in zip(spec.args, bound):
+        if isinstance(v, _Default):
+            kwargs[arg.name] = _fuel_arg(arg, v.value) if arg.kind == "fuel" and v.value is not None else v.value
+        elif arg.kind == "cells":
+            kwargs[arg.name] = _as_grid(v) if _is_range(v) else ([[v]] if v is not None else None)
+        elif arg.kind == "range":
+            kwargs[arg.name] = _range_arg(arg, v)
+        elif arg.kind == "fuel":
+            kwargs[arg.name] = _fuel_arg(arg, v)
+        else:
+            if _is_range(v):
+                grid = _as_grid(v)
+                if len(grid) != 1 or len(grid[0]) != 1:
+                    raise CellError(f"{arg.name} must be a single cell for {spec.name} "
+                                    f"(got a {len(grid)}x{len(grid[0])} range)")
+                v = grid[0][0]
+            conv = _number_or_error if arg.kind == "number" else _text_or_error
+            x, err = conv(arg, v)
+            if err:
+                raise CellError(err)
+            kwargs[arg.name] = x
+    return _table_out(_run(spec, kwargs))
+
+
+def _call_elementwise(spec, bound):
+    fixed = {}
+    ew_names, ew_vals, ew_errs = [], [], []
+    for arg, v in zip(spec.args, bound):
+        if isinstance(v, _Default):
+            fixed[arg.name] = _fuel_arg(arg, v.value) if arg.kind == "fuel" and v.value is not None else v.value
+        elif arg.kind == "fuel":
+            fixed[arg.name] = _fuel_arg(arg, v)
+        elif arg.kind == "range":
+            fixed[arg.name] = _range_arg(arg, v)
+        elif arg.kind == "cells":
+            fixed[arg.name] = _as_grid(v) if _is_range(v) else [[v]]
+        else:
+            vals, errs = _elementwise_arg(arg, v)
+            ew_names.append(arg.name)
+            ew_vals.append(vals)
+            ew_errs.append(errs)
+    try:
+        shape = np.broadcast_shapes(*[a.shape for a in ew_vals]) if ew_vals else ()
+    except ValueError:
+        raise CellError("the ranges given have shapes that do not fit together: "
+                        + ", ".join(f"{n} {a.shape[0]}x{a.shape[1]}" for n, a in zip(ew_names, ew_vals) if a.ndim == 2))
+    n = int(np.prod(shape)) if shape else 1
+    vals = [np.broadcast_to(a, shape).reshape(n) for a in ew_vals]
+    errs = [np.broadcast_to(e, shape).reshape(n) for e in ew_errs]
+    out = np.empty(n, dtype=object)
+    bad = np.zeros(n, dtype=bool)
+    for e in errs:  # first failing argument (in order) names the error
+        m = (e != None) & ~bad  # noqa: E711 -- elementwise test on an object array
+        out[m] = [error_text(t) for t in e[m]]
+        bad |= m
+    ok = np.flatnonzero(~bad)
+    if ok.size:
+        args = {a.name: a for a in spec.args}
+        grouped = [i for i, nm in enumerate(ew_names) if args[nm].group or args[nm].kind == "text"]
+        keys = [tuple(vals[i][j] for i in grouped) for j in ok] if grouped else None
+        groups = {}
+        if keys is None:
+            groups[()] = ok
+        else:
+            for j, k in zip(ok, keys):
+                groups.setdefault(k, []).append(j)
+        for key, idx in groups.items():
+            idx = np.asarray(idx)
+            kw = dict(fixed)
+            for i, nm in enumerate(ew_names):
+                if i in grouped:
+                    kw[nm] = vals[i][idx[0]]
+                    if args[nm].kind == "number":
+                        kw[nm] = float(kw[nm])
+                else:
+                    kw[nm] = vals[i][idx].astype(float)
+            _run_group(spec, kw, idx, [ew_names[i] for i in range(len(ew_names)) if i not in grouped], out)
+    if shape == ():
+        return out[0]
+    res = out.reshape(shape)
+    if res.ndim == 1:
+        res = res.reshape(-1, 1)
+    return [list(r) for r in res]
+
+
+def _run_group(spec, kw, idx, array_names, out):
+    try:
+        res = _run(spec, kw)
+        res = np.broadcast_to(np.asarray(res, dtype=object if spec.returns.kind == "text" else None), (idx.size,))
+        for j, r in zip(idx, res.tolist()):
+            out[j] = _cell_out(r, spec.returns.kind)
+        return
+    except (FuelsysInputError, CellError) as exc:
+        if idx.size == 1:
+            out[idx[0]] = error_text(str(exc))
+            return
+    # locate the failing elements one by one (only after a refusal)
+    for k, j in enumerate(idx):
+        one = dict(kw)
+        for nm in array_names:
+            one[nm] = kw[nm][k:k + 1]
+        _run_group(spec, one, np.array([j]), array_names, out)
+
+
+def call_spec(spec: catalogue.Spec, *cells):
+    """Run ``spec`` on cell values; see the module docstring."""
+    try:
+        bound = _bind(spec, cells)
+        if spec.returns.kind == "table":
+            return _call_table(spec, bound)
+        return _call_elementwise(spec, bound)
+    except (CellError, FuelsysInputError) as exc:
+        return error_text(str(exc))
+    except Exception as exc:  # a spreadsheet function never crashes its host
+        if STRICT:
+            raise
+        return error_text(f"internal error in {spec.name} ({type(exc).__name__}: {exc})")
+
+
+def call(name: str, *cells):
+    """Run the spreadsheet function ``name`` on cell values, as a cell would.
+
+    Examples
+    --------
+    >>> from fuelsys.sheet import call
+    >>> call("FS_VERSION").startswith("fuelsys ")
+    True
+    """
+    try:
+        spec = catalogue.get(name)
+    except KeyError:
+        return error_text(f"unknown function {str(name)[:40]}; see FS_HELP() for the list")
+    return call_spec(spec, *cells)

@@ -1,0 +1,126 @@
+"""The adapter: cell values in, cell values out, errors as texts in the failing cells only.
+
+Expected values here are arithmetic on the inputs (no outside source needed):
+the test functions are declared in this file and never registered in the catalogue.
+"""
+
+import math
+
+import numpy as np
+import pytest
+
+from fuelsys.errors import FuelsysInputError
+from fuelsys.sheet import adapt
+from fuelsys.sheet.catalogue import Arg, Returns, Spec
+
+
+def _spec(impl, args, kind="number", name="FS_TEST"):
+    return Spec(name=name, category="about", summary="test", args=tuple(args),
+                returns=Returns(kind, "-", "test result"), source="test", impl=impl)
+
+
+def _scale(x, k):
+    x = np.asarray(x, dtype=float)
+    if np.any(x > 100):
+        raise FuelsysInputError("x must be <= 100 for this test function")
+    return x * k
+
+
+SCALE = _spec(_scale, [Arg("x", "number", "mm", "a length", gt=0),
+                       Arg("k", "number", "-", "a factor", default=2.0)])
+
+
+def test_scalar_in_float_out():
+    out = adapt.call_spec(SCALE, 3.0)
+    assert out == 6.0 and type(out) is float
+
+
+def test_omitted_and_empty_optional_take_default():
+    assert adapt.call_spec(SCALE, 3.0, None) == 6.0
+    assert adapt.call_spec(SCALE, 3.0, "") == 6.0
+    assert adapt.call_spec(SCALE, 3.0, 3) == 9.0
+
+
+def test_range_broadcasts_row_against_column():
+    out = adapt.call_spec(SCALE, [[1.0], [2.0]], [[1.0, 10.0]])
+    assert out == [[1.0, 10.0], [2.0, 20.0]]
+
+
+def test_flat_list_is_a_column():
+    assert adapt.call_spec(SCALE, [1.0, 2.0]) == [[2.0], [4.0]]
+
+
+def test_bad_elements_fail_alone():
+    out = adapt.call_spec(SCALE, [[1.0], [-1.0], ["abc"], [None], [True], [200.0]])
+    assert out[0][0] == 2.0
+    assert out[1][0] == "FS error: x must be > 0 mm (got -1)"
+    assert out[2][0].startswith("FS error: x must be a number in mm (got text")
+    assert out[3][0] == "FS error: x is empty; a number in mm is required"
+    assert out[4][0] == "FS error: x must be a number in mm (got TRUE)"
+    # refused by the function itself: located element by element
+    assert out[5][0] == "FS error: x must be <= 100 for this test function"
+
+
+def test_required_missing_and_too_many():
+    assert adapt.call_spec(SCALE).startswith("FS error: x is missing")
+    assert adapt.call_spec(SCALE, 1, 2, 3).startswith("FS error: FS_TEST takes at most 2 arguments")
+
+
+def test_shapes_that_do_not_fit():
+    out = adapt.call_spec(SCALE, [[1.0], [2.0]], [[1.0], [2.0], [3.0]])
+    assert out.startswith("FS error: the ranges given have shapes that do not fit")
+
+
+def test_nan_result_is_an_error_text():
+    nan = _spec(lambda x: np.full_like(np.asarray(x, float), np.nan), [Arg("x", "number", "-", "x")])
+    assert adapt.call_spec(nan, 1.0).startswith("FS error: no finite result")
+
+
+def test_internal_error_never_raises_unless_strict(monkeypatch):
+    boom = _spec(lambda x: 1 / 0, [Arg("x", "number", "-", "x")])
+    monkeypatch.setattr(adapt, "STRICT", False)
+    assert adapt.call_spec(boom, 1.0).startswith("FS error: internal error in FS_TEST (ZeroDivisionError")
+    monkeypatch.setattr(adapt, "STRICT", True)
+    with pytest.raises(ZeroDivisionError):
+        adapt.call_spec(boom, 1.0)
+
+
+def test_grouped_arguments_get_one_value_per_call():
+    seen = []
+
+    def impl(x, mode):
+        seen.append(mode)
+        return np.asarray(x) * (1 if mode == "one" else 10)
+
+    spec = _spec(impl, [Arg("x", "number", "-", "x"), Arg("mode", "text", "-", "mode", choices=("one", "ten"))])
+    out = adapt.call_spec(spec, [[1.0], [2.0]], [["one"], ["TEN"]])
+    assert out == [[1.0], [20.0]]
+    assert sorted(seen) == ["one", "ten"]
+    assert adapt.call_spec(spec, 1.0, "five") == 'FS error: mode must be one of one, ten (got "five")'
+
+
+def test_table_result_and_single_cell_table():
+    tab = _spec(lambda n: [["label", "value"], ["n", n]], [Arg("n", "number", "-", "n")], kind="table")
+    assert adapt.call_spec(tab, 2) == [["label", "value"], ["n", 2.0]]
+    one = _spec(lambda n: [[n * 2]], [Arg("n", "number", "-", "n")], kind="table")
+    assert adapt.call_spec(one, 2) == 4.0
+    assert adapt.call_spec(tab, [[1, 2]]).startswith("FS error: n must be a single cell")
+
+
+def test_range_argument_drops_blanks_and_checks_bounds():
+    spec = _spec(lambda v: [[float(np.sum(v))]], [Arg("v", "range", "mm", "values", gt=0)], kind="table")
+    assert adapt.call_spec(spec, [[1.0], [2.0], [None]]) == 3.0
+    assert adapt.call_spec(spec, [[1.0], [-2.0]]) == "FS error: v must be > 0 mm (got -2)"
+    assert adapt.call_spec(spec, [[None]]).startswith("FS error: v holds no numbers")
+
+
+def test_error_input_names_the_failed_cell():
+    out = adapt.call_spec(SCALE, "FS error: bore_mm must be > 0")
+    assert out == "FS error: x refers to a cell that failed (bore_mm must be > 0)"
+
+
+def test_integer_bounds():
+    spec = _spec(lambda n: np.asarray(n) + 1, [Arg("n", "number", "-", "count", low=1, integer=True)])
+    assert adapt.call_spec(spec, 2) == 3.0
+    assert adapt.call_spec(spec, 2.5) == "FS error: n must be a whole number >= 1 (got 2.5)"
+    assert not math.isnan(adapt.call_spec(spec, 1))
