@@ -1,0 +1,137 @@
+"""The ``fuelsys`` command.
+
+Subcommands come from the modules in :data:`COMMAND_MODULES`; each has an
+``add_commands(subparsers)`` that adds its parsers and sets ``func`` (a
+handler taking the parsed arguments and returning the exit status).  The
+commands that belong to the command itself (``demo``, ``functions``) are
+defined here.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import sys
+
+CAUTIONS = """\
+SAFETY: fuel under pressure, flame and fast-rotating parts can hurt people.
+- Run engines only where local rules and your club's safety code allow it;
+  keep a suitable extinguisher at hand, and store and handle fuel and gas away
+  from ignition sources.
+- Pressure-test the fuel system before running; wear eye and hearing
+  protection; keep people out of the plane of the rotor.
+- These figures are estimates from published correlations. Confirm them by
+  bench tests, and defer to local codes, club safety rules and licensed practice."""
+
+#: modules that add subcommands (each defines ``add_commands(subparsers)``)
+COMMAND_MODULES = (
+    "fuelsys.sheet.commands",
+    "fuelsys.sheet.calc_addin.commands",
+)
+
+
+def _print_table(rows, headers, out):
+    widths = [max(len(h), *(len(r[i]) for r in rows)) for i, h in enumerate(headers)]
+    out.write("  ".join(h.rjust(w) for h, w in zip(headers, widths)) + "\n")
+    out.write("  ".join("-" * w for w in widths) + "\n")
+    for r in rows:
+        out.write("  ".join(c.rjust(w) for c, w in zip(r, widths)) + "\n")
+
+
+def property_tables(out=sys.stdout) -> None:
+    """Print the built-in kerosene's properties over -40..150 °C and a propane canister table."""
+    import numpy as np
+
+    from fuelsys.fuels import get_fuel
+
+    ker = get_fuel("kerosene")
+    t_c = np.arange(-40.0, 151.0, 10.0)
+    T = t_c + 273.15
+    cols = [
+        ("T [°C]", t_c, "{:.0f}"),
+        ("density [kg/m³]", ker.density(T), "{:.1f}"),
+        ("viscosity [mm²/s]", ker.kinematic_viscosity(T) * 1e6, "{:.3f}"),
+        ("cp [kJ/(kg·K)]", ker.specific_heat(T) / 1e3, "{:.3f}"),
+        ("k [W/(m·K)]", ker.conductivity(T), "{:.4f}"),
+        ("σ [mN/m]", ker.surface_tension(T) * 1e3, "{:.2f}"),
+        ("p_vap [bar abs]", ker.vapour_pressure(T) / 1e5, "{:.4g}"),
+        ("h_vap [kJ/kg]", ker.latent_heat(T) / 1e3, "{:.1f}"),
+    ]
+    out.write(f"Built-in fuel 'kerosene' (a generic Jet A-1-type kerosene, fuelsys {_version()} model)\n")
+    out.write("Liquid properties; vapour pressure is the bubble-point (true vapour) pressure.\n\n")
+    rows = [[fmt.format(v) for _, vals, fmt in cols for v in [vals[i]]] for i in range(t_c.size)]
+    _print_table(rows, [c[0] for c in cols], out)
+    out.write(f"\nLower heating value {ker.lhv / 1e6:.2f} MJ/kg; stoichiometric fuel/air ratio {ker.stoich_far:.4f}\n")
+
+    from fuelsys.fuels import gases
+
+    t_can = np.arange(-20.0, 41.0, 5.0)
+    names = ["propane", "lpg-70-30", "butane"]
+    cols = [("T [°C]", t_can, "{:.0f}")]
+    for n in names:
+        g = gases.get_gas(n)
+        cols.append((f"{n} [bar gauge]", g.canister_pressure(t_can + 273.15) / 1e5 - 1.01325, "{:.2f}"))
+    out.write("\nGas canister pressure (saturated liquid in the canister, CoolProp reference equations)\n\n")
+    rows = [[fmt.format(v) for _, vals, fmt in cols for v in [vals[i]]] for i in range(t_can.size)]
+    _print_table(rows, [c[0] for c in cols], out)
+
+
+def _version() -> str:
+    import fuelsys
+
+    return fuelsys.__version__
+
+
+def _cmd_demo(args) -> int:
+    property_tables(sys.stdout)
+    print()
+    print(CAUTIONS)
+    return 0
+
+
+def _cmd_functions(args) -> int:
+    from fuelsys.sheet import catalogue
+
+    for spec in catalogue.functions().values():
+        if args.name and spec.name != args.name.upper():
+            continue
+        print(spec.help_text() if args.name else f"{spec.signature():70s} {spec.summary}")
+    return 0
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = argparse.ArgumentParser(
+        prog="fuelsys",
+        description="Size the fuel system of a small gas turbine: fuel properties, needles, "
+                    "vaporisers, pump and gas start, and compute fuelsys workbooks headless.",
+        epilog="Results are estimates: confirm them by bench tests. See README for the safety cautions.",
+    )
+    parser.add_argument("--version", action="version", version=f"fuelsys {_version()}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+    p = sub.add_parser("demo", help="run the built-in demo (property tables of the built-in fuels)")
+    p.set_defaults(func=_cmd_demo)
+    p = sub.add_parser("functions", help="list the spreadsheet functions, or describe one")
+    p.add_argument("name", nargs="?", help="a function name such as FS_NEEDLE_FLOW")
+    p.set_defaults(func=_cmd_functions)
+    for modname in COMMAND_MODULES:
+        try:
+            mod = importlib.import_module(modname)
+        except ModuleNotFoundError as exc:
+            if exc.name != modname:
+                raise
+            continue
+        mod.add_commands(sub)
+    return parser
+
+
+def main(argv=None) -> int:
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    if not getattr(args, "func", None):
+        parser.print_help()
+        return 2
+    return int(args.func(args) or 0)
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())
