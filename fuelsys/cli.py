@@ -117,7 +117,7 @@ def build_parser() -> argparse.ArgumentParser:
         try:
             mod = importlib.import_module(modname)
         except ModuleNotFoundError as exc:
-            if exc.name != modname:
+            if not (exc.name and (modname + ".").startswith(exc.name + ".")):
                 raise
             continue
         mod.add_commands(sub)
