@@ -1,0 +1,165 @@
+"""Gear pump with DC motor, system curve, operating points (fuelsys.pump)."""
+
+import numpy as np
+import pytest
+
+from fuelsys import pump as P
+from fuelsys.errors import FuelsysInputError
+
+# a pump of our own invention: 24 mL/min per volt, 1.2 ohm, 0.5 A friction, slip 2e-15 m³
+TRUE = P.GearPump.physical(4.0e-7, 1.2, 0.5, 2.0e-15)
+
+
+def _viscosity_dodecane(t_c):
+    """n-dodecane as a kerosene stand-in: CoolProp (Huber, Laesecke & Perkins 2004 viscosity)."""
+    CP = pytest.importorskip("CoolProp.CoolProp")
+    return CP.PropsSI("V", "T", t_c + 273.15, "P", 101325.0, "n-Dodecane")
+
+
+def _test_points(mu, noise=0.0, seed=7):
+    volts = np.repeat([6.0, 9.0, 12.0], 4)
+    dp = np.tile([0.5e5, 1.5e5, 3.0e5, 4.5e5], 3)
+    mu = np.broadcast_to(mu, volts.shape)
+    q = TRUE.flow(volts, dp, mu)
+    rng = np.random.default_rng(seed)
+    return q, dp, volts + rng.normal(0.0, noise, volts.size), mu
+
+
+def test_fit_recovers_synthetic_coefficients_exactly():
+    mu = np.repeat([1.9e-3, 1.0e-3, 1.4e-3], 4)  # test points at three fuel temperatures
+    q, dp, v, mu = _test_points(mu)
+    fit = P.fit_pump(q, dp, v, mu)
+    p = fit.pump
+    assert p.phi == pytest.approx(TRUE.phi, rel=1e-6)
+    assert p.winding_ohm == pytest.approx(TRUE.winding_ohm, rel=1e-5)
+    assert p.friction_current == pytest.approx(TRUE.friction_current, rel=1e-5)
+    assert p.slip == pytest.approx(TRUE.slip, rel=1e-5)
+    assert fit.rms_volts < 1e-8 and fit.r_squared == pytest.approx(1.0, abs=1e-12)
+
+
+def test_fit_recovers_coefficients_with_noise():
+    mu = np.repeat([1.9e-3, 1.0e-3, 1.4e-3], 4)
+    q, dp, v, mu = _test_points(mu, noise=0.02)  # 20 mV reading noise
+    fit = P.fit_pump(q, dp, v, mu)
+    p, se = fit.pump, fit.std_errors
+    for name, true in (("phi", TRUE.phi), ("winding_ohm", TRUE.winding_ohm),
+                       ("friction_current", TRUE.friction_current), ("slip", TRUE.slip)):
+        got = getattr(p, name)
+        assert abs(got - true) < 4.0 * se[name] + 1e-12, name
+    assert p.phi == pytest.approx(TRUE.phi, rel=0.01)
+    assert p.slip == pytest.approx(TRUE.slip, rel=0.1)
+    assert 0.005 < fit.rms_volts < 0.04
+    assert fit.r_squared > 0.999
+    assert fit.condition < P.MAX_CONDITION
+
+
+def test_fit_with_measured_resistance_at_one_temperature():
+    q, dp, v, mu = _test_points(1.3e-3, noise=0.01)
+    fit = P.fit_pump(q, dp, v, mu, winding_ohm=1.2, kv=1000.0)
+    assert fit.pump.slip == pytest.approx(TRUE.slip, rel=0.1)
+    # Kv 1000 rpm/V -> k = 60/(2π·1000) V s/rad (Fitzgerald et al. 2003 §7.2); D = φ k
+    k = 60.0 / (2 * np.pi * 1000.0)
+    assert fit.pump.motor_k == pytest.approx(k, rel=1e-12)
+    assert fit.pump.displacement == pytest.approx(TRUE.phi * k, rel=0.01)
+
+
+def test_lumped_fit_holds_only_at_its_viscosity():
+    q, dp, v, mu = _test_points(1.3e-3)
+    fit = P.fit_pump(q, dp, v, mu)
+    assert not fit.pump.separable
+    assert fit.pump.volts(q, dp, 1.3e-3) == pytest.approx(v, rel=1e-8)
+    with pytest.raises(FuelsysInputError, match="winding_ohm"):
+        fit.pump.volts(3e-6, 2e5, 0.9e-3)
+
+
+def test_more_voltage_more_flow_and_warm_fuel_slips_more():
+    v = np.linspace(6.0, 14.0, 9)
+    q = TRUE.flow(v, 3e5, 1.4e-3)
+    assert np.all(np.diff(q) > 0)
+    mu20, mu60 = _viscosity_dodecane(20.0), _viscosity_dodecane(60.0)
+    assert mu60 < mu20  # thinner when warm (CoolProp n-dodecane)
+    q20 = TRUE.flow(12.0, 3e5, mu20)
+    q60 = TRUE.flow(12.0, 3e5, mu60)
+    slip20 = TRUE.phi * (12.0 - TRUE.v0 - TRUE.winding_ohm * TRUE.phi * 3e5) - q20
+    slip60 = TRUE.phi * (12.0 - TRUE.v0 - TRUE.winding_ohm * TRUE.phi * 3e5) - q60
+    assert slip60 > slip20 > 0
+    assert q60 < q20
+    # slip ∝ 1/μ (laminar leakage, Wilson 1949)
+    assert slip60 / slip20 == pytest.approx(mu20 / mu60, rel=1e-9)
+
+
+def test_oil_in_fuel_thickens_it_and_cuts_slip():
+    # a few per cent of turbine oil in the fuel: common practice, no source.
+    # 5 % oil raises kerosene viscosity by roughly a fifth (from memory); slip falls as 1/μ
+    mu_kero = 1.3e-3
+    mu_blend = 1.2 * mu_kero
+    assert TRUE.flow(12.0, 3e5, mu_blend) > TRUE.flow(12.0, 3e5, mu_kero)
+
+
+def test_operating_point_lies_on_both_curves():
+    def system(q):  # Pa: case 1.8 bar + needles ∝ q (laminar) + line ∝ q² (our own example)
+        return 1.8e5 + 2.0e10 * q + 1.0e15 * q**2
+
+    mu = 1.4e-3
+    v = np.array([6.0, 9.0, 12.0])
+    q = P.operating_flow(TRUE, v, system, mu)
+    assert np.all(np.diff(q) > 0)
+    p_sys = system(q)
+    assert TRUE.flow(v, p_sys, mu) == pytest.approx(q, rel=1e-9)   # on the pump curve
+    assert TRUE.volts(q, p_sys, mu) == pytest.approx(v, rel=1e-9)   # same point by voltage
+    # at too low a voltage the pump cannot open the case pressure: no flow
+    assert P.operating_flow(TRUE, 0.5, system, mu) == 0.0
+
+
+def test_system_curve_terms():
+    # ρ g n h: 800 kg/m³, 0.25 m, 4 g -> 800·9.80665·4·0.25 Pa (hydrostatics)
+    assert P.head_pressure(0.25, 800.0, 4.0) == pytest.approx(800 * 9.80665 * 1.0, rel=1e-12)
+    p = P.system_pressure(np.array([0.2e5, 1.8e5]), np.array([0.1e5, 1.5e5]), np.array([0.01e5, 0.2e5]),
+                          density=800.0, head=0.25, g_load=4.0, margin_pct=10.0, filter_dp=0.05e5)
+    expected = (np.array([0.2e5, 1.8e5]) + [0.1e5, 1.5e5] + [0.01e5, 0.2e5] + 0.05e5 + 800 * 9.80665) * 1.1
+    assert p == pytest.approx(expected, rel=1e-12)
+    with pytest.raises(FuelsysInputError, match="needle pressure drop"):
+        P.system_pressure(1e5, -1.0, 0.0, density=800.0)
+
+
+def test_battery_headroom_and_shortfall():
+    mu = 1.4e-3
+    q = np.array([1.2e-6, 5.0e-6])  # idle, full (m³/s)
+    dp = np.array([0.6e5, 4.0e5])
+    need = TRUE.volts(q, dp, mu)
+    out = P.battery_check(TRUE, q, dp, mu, 12.0)
+    assert out["volts"] == pytest.approx(need)
+    assert out["headroom"] == pytest.approx(12.0 - need)
+    ok = P.battery_check(TRUE, q, dp, mu, 16.0)
+    assert bool(np.all(ok["ok"])) and "to spare" in ok["verdict"]
+    short = need[1] - 11.1
+    assert short > 0
+    with pytest.raises(FuelsysInputError, match=rf"short by {short:.2f} V"):
+        P.require_battery(TRUE, q, dp, mu, 11.1)
+
+
+def test_fit_row_round_trip_and_parsing():
+    mu = np.repeat([1.9e-3, 1.0e-3, 1.4e-3], 4)
+    q, dp, v, mu = _test_points(mu)
+    row = P.fit_row(P.fit_pump(q, dp, v, mu, kv=900.0))
+    back = P.pump_from_row(row)
+    assert back.volts(4e-6, 2e5, 1.1e-3) == pytest.approx(TRUE.volts(4e-6, 2e5, 1.1e-3), rel=1e-6)
+    # transposed range (labels in a column), with upper-case labels and blank cells
+    col = [[lab.upper(), val] for lab, val in zip(*row)] + [[None, None]]
+    assert P.pump_from_row(col).phi == pytest.approx(back.phi, rel=1e-12)
+    with pytest.raises(FuelsysInputError, match="flow_per_volt_ml_min_v"):
+        P.pump_from_row([["rms_v"], [0.1]])
+
+
+def test_bad_fits_are_refused():
+    q, dp, v, mu = _test_points(1.3e-3)
+    with pytest.raises(FuelsysInputError, match="at least 4 test points"):
+        P.fit_pump(q[:3], dp[:3], v[:3], mu[:3])
+    with pytest.raises(FuelsysInputError, match="one voltage"):
+        P.fit_pump(q[:4], dp[:4], np.full(4, 12.0), 1.3e-3)
+    with pytest.raises(FuelsysInputError, match="same count"):
+        P.fit_pump(q, dp[:-1], v, 1.3e-3)
+    # collinear: flow and pressure rise together along one line through all points
+    qq = np.linspace(1e-6, 5e-6, 6)
+    with pytest.raises(FuelsysInputError, match="cannot fix the pump coefficients"):
+        P.fit_pump(qq, qq * 1e11, 2.0 + qq * 2e6 + qq * 1e5, 1.3e-3)
