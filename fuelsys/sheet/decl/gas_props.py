@@ -1,0 +1,56 @@
+"""Spreadsheet functions for start gas: canister pressure of propane, butanes and LPG blends."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
+
+_GAS_DOC = ("propane, butane, isobutane, or a blend lpg-XX-YY (propane/n-butane, % by mass) "
+            "or lpg-XX-YY-iso (propane/isobutane, % by mass)")
+
+
+@spreadsheet_function(
+    name="FS_CANISTER_PRESSURE", category="gas",
+    summary="Gauge pressure in a gas canister from the temperature of the liquid in it",
+    args=[Arg("gas", "text", "-", _GAS_DOC),
+          Arg("temp_c", "number", "°C", "temperature of the liquid in the canister", gt=-273.15)],
+    returns=Returns("number", "bar gauge",
+                    "bubble-point pressure of the full canister's liquid minus 1.01325 bar "
+                    "(negative: below atmospheric, the gas will not flow out)"),
+    source="saturation pressure from CoolProp reference equations of state (Lemmon et al. 2009 "
+           "propane; Bücker & Wagner 2006 butanes); blends by the modified Raoult's law with a "
+           "virial vapour phase (Smith, Van Ness & Abbott 2005, §14.1)",
+)
+def fs_canister_pressure(gas, temp_c):
+    """Canister pressure [bar gauge] of ``gas`` with its liquid at ``temp_c`` [°C].
+
+    Parameters
+    ----------
+    gas : str
+        Gas name, see :func:`fuelsys.fuels.gases.get_gas` [-]
+    temp_c : array_like
+        Liquid temperature [°C]
+
+    Returns
+    -------
+    ndarray
+        Pressure above the standard atmosphere [bar gauge].
+
+    References
+    ----------
+    See :meth:`fuelsys.fuels.gases.CoolPropFluid.canister_pressure`.
+    """
+    from fuelsys.errors import FuelsysInputError
+    from fuelsys.fuels.base import P_ATM, T0_C
+    from fuelsys.fuels.gases import get_gas
+
+    try:
+        fluid = get_gas(gas)
+    except FuelsysInputError as exc:
+        raise FuelsysInputError(f"gas: {exc}") from None
+    if not all(k in ("propane", "n-butane", "isobutane") for k in fluid.components):
+        raise FuelsysInputError(f"gas: {gas} is not a canister gas; use propane, butane, isobutane "
+                                "or a blend lpg-XX-YY / lpg-XX-YY-iso")
+    T = fluid.check_temperature(np.asarray(temp_c, dtype=float) + T0_C, "temp_c")
+    return (np.asarray(fluid.canister_pressure(T)) - P_ATM) / 1e5
