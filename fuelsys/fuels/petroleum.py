@@ -1133,19 +1133,18 @@ def stoich_far_from_composition(w_c, w_h, w_o=0.0):
 RAOULT_RANGE = {"P": (1.0e3, 1.0e6, "Pa")}
 
 
-def _rr_residual(u, K, z, za, zh):
-    """Rachford-Rice residual in u = ln(alpha), alpha = liquid moles / feed moles, and d/du."""
-    a = np.exp(u)
+def _rr_residual(a, K, z, za, zh):
+    """Rachford-Rice residual in alpha = liquid moles / feed moles, and its derivative d/d alpha."""
     den = K + a[..., None] * (1.0 - K)
-    f = np.sum(z * (K - 1.0) / den, axis=-1)
-    df = np.sum(z * (K - 1.0) ** 2 / den ** 2, axis=-1)
     with np.errstate(divide="ignore", invalid="ignore"):
+        f = np.sum(z * (K - 1.0) / den, axis=-1)
+        df = np.sum(z * (K - 1.0) ** 2 / den ** 2, axis=-1)
         f = f + np.where(za > 0, za / (1.0 - a), 0.0) - np.where(zh > 0, zh / a, 0.0)
         df = df + np.where(za > 0, za / (1.0 - a) ** 2, 0.0) + np.where(zh > 0, zh / a ** 2, 0.0)
-    return f, df * a
+    return f, df
 
 
-def raoult_flash(K, z, za, zh, tol=1e-12, maxiter=200):
+def raoult_flash(K, z, za, zh, tol=1e-14, maxiter=200):
     """Isothermal flash of a liquid with an inert gas and a non-volatile liquid.
 
     Rachford-Rice form in the liquid mole fraction of the feed ``alpha``:
@@ -1155,8 +1154,8 @@ def raoult_flash(K, z, za, zh, tol=1e-12, maxiter=200):
 
     The air (``z_a``, K infinite) never dissolves, the heavy oil (``z_h``, K
     zero) never vaporises.  The left side rises monotonically in ``alpha``;
-    the root is bracketed in (0, 1 - z_a] and found by Newton steps in
-    ``ln alpha`` safeguarded by bisection -- vectorised, no loop over points.
+    the root is bracketed in (z_h, 1 - z_a) and found by Newton steps
+    safeguarded by bisection -- vectorised, no loop over points.
 
     Parameters
     ----------
@@ -1170,7 +1169,7 @@ def raoult_flash(K, z, za, zh, tol=1e-12, maxiter=200):
     zh : ndarray
         Feed mole fraction of the non-volatile liquid, shape (...) [-].
     tol : float
-        Tolerance on ln(alpha) [-].
+        Tolerance on alpha [-].
     maxiter : int
         Iteration limit [-].
 
@@ -1202,34 +1201,34 @@ def raoult_flash(K, z, za, zh, tol=1e-12, maxiter=200):
     z = np.broadcast_to(np.asarray(z, dtype=float), K.shape)
     za = np.broadcast_to(np.asarray(za, dtype=float), shape)
     zh = np.broadcast_to(np.asarray(zh, dtype=float), shape)
-    tiny = 1e-250
-    lo = np.full(shape, math.log(tiny))
-    hi = np.where(za > 0, np.log1p(-np.minimum(za, 1.0 - 1e-300)), 0.0)
-    # ends of the bracket
-    f_lo, _ = _rr_residual(lo, K, z, za, zh)
-    no_air = za <= 0
-    f_hi_noair = np.sum(z * K, axis=-1) - (1.0 - zh) + np.sum(z, axis=-1) * 0.0  # sum z K - sum z, at alpha = 1
-    f_hi_noair = np.sum(z * (K - 1.0), axis=-1) - zh
-    all_vap = f_lo >= 0
-    all_liq = no_air & (f_hi_noair <= 0)
+    # bracket: the oil stays liquid (alpha > z_h), the air stays vapour (alpha < 1 - z_a)
+    lo = np.array(zh, dtype=float, copy=True)
+    hi = 1.0 - za
+    no_air, no_oil = za <= 0, zh <= 0
+    # ends: without oil, f(0) = 1 - sum z/K >= 0 means all vaporised (dew point passed);
+    # without air, f(1) = sum z (K - 1) - z_h <= 0 means all liquid (below the bubble point)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        f_0 = za + np.sum(z * (K - 1.0) / K, axis=-1)
+    f_1 = np.sum(z * (K - 1.0), axis=-1) - zh
+    all_vap = no_oil & (f_0 >= 0)
+    all_liq = no_air & (f_1 <= 0)
     active = ~(all_vap | all_liq)
-    u = 0.5 * (lo + hi)
+    a = 0.5 * (lo + hi)
     for _ in range(maxiter):
         if not np.any(active):
             break
-        f, df = _rr_residual(u, K, z, za, zh)
+        f, df = _rr_residual(a, K, z, za, zh)
         pos = f > 0
-        hi = np.where(active & pos, u, hi)
-        lo = np.where(active & ~pos, u, lo)
+        hi = np.where(active & pos, a, hi)
+        lo = np.where(active & ~pos, a, lo)
         with np.errstate(divide="ignore", invalid="ignore"):
-            step = np.where(df > 0, f / df, 0.0)
-        un = u - step
-        bad = ~np.isfinite(un) | (un <= lo) | (un >= hi)
-        un = np.where(bad, 0.5 * (lo + hi), un)
-        done = (np.abs(un - u) < tol) | (hi - lo < tol)
-        u = np.where(active, un, u)
+            an = a - f / df
+        bad = ~np.isfinite(an) | (an <= lo) | (an >= hi)
+        an = np.where(bad, 0.5 * (lo + hi), an)
+        done = (np.abs(an - a) < tol) | (hi - lo < tol)
+        a = np.where(active, an, a)
         active = active & ~done
-    alpha = np.where(all_vap, 0.0, np.where(all_liq, 1.0, np.exp(u)))
+    alpha = np.where(all_vap, 0.0, np.where(all_liq, 1.0, a))
     a = alpha[..., None]
     with np.errstate(divide="ignore", invalid="ignore"):
         vap = z * K * (1.0 - a) / (K + a * (1.0 - K))
@@ -1284,6 +1283,7 @@ class PetroleumFuel(Fuel):
     d86 : dict
         ASTM D86 points: volume per cent distilled (0 = IBP, 10, 30, 50, 70,
         90, 95, 100 = FBP) -> temperature [K]; 10, 50 and 90 % are required.
+        Pass None together with ``tbp`` to give the true boiling curve directly.
     viscosity_points : sequence
         Two pairs (temperature [K], kinematic viscosity [m²/s]).
     lhv : float, optional
@@ -1299,6 +1299,9 @@ class PetroleumFuel(Fuel):
         Pseudo-component boundaries in volume per cent, 0 ... 100 [%].
     sources : dict, optional
         Source text of each datum, shown by :meth:`info`.
+    tbp : dict, optional
+        True boiling points instead of D86: volume per cent (0..100, both ends
+        required) -> temperature [K], e.g. from a simulated distillation.
 
     Notes
     -----
@@ -1325,7 +1328,7 @@ class PetroleumFuel(Fuel):
     kind = "liquid"
 
     def __init__(self, name, density_15c, d86, viscosity_points, lhv=None, freezing_point=None,
-                 flash_point=None, hydrogen_mass_fraction=None, cuts=DEFAULT_CUTS, sources=None):
+                 flash_point=None, hydrogen_mass_fraction=None, cuts=DEFAULT_CUTS, sources=None, tbp=None):
         self.name = str(name)
         self.sources = dict(sources or {})
         self.density_15c = float(density_15c)
@@ -1333,8 +1336,12 @@ class PetroleumFuel(Fuel):
             raise FuelsysInputError(f"density at 15 °C must be 500..1100 kg/m³ for a petroleum liquid "
                                     f"(got {self.density_15c:g})")
         self.sg = self.density_15c / RHO_WATER_15C
-        self.d86 = {int(k): float(v) for k, v in sorted(d86.items())}
-        self._build_tbp()
+        if tbp is not None:
+            self.d86 = {}
+            self._set_tbp({float(k): float(v) for k, v in tbp.items()})
+        else:
+            self.d86 = {int(k): float(v) for k, v in sorted(d86.items())}
+            self._build_tbp()
         self._build_components(cuts)
         # viscosity
         (t1, n1), (t2, n2) = viscosity_points
@@ -1388,11 +1395,15 @@ class PetroleumFuel(Fuel):
                 tbp[0] = min(t0, tbp[inner[0]] - 1.0)
             if 100 not in tbp:
                 tbp[100] = max(float(riazi_1989_temperature(99.0, t0, a, b)), tbp[inner[-1]] + 1.0)
+        self._set_tbp(tbp)
+
+    def _set_tbp(self, tbp):
         pts = sorted(tbp)
         vals = [tbp[p] for p in pts]
+        if pts[0] != 0 or pts[-1] != 100:
+            raise FuelsysInputError("a true boiling curve needs its 0 % and 100 % points")
         if any(b <= a for a, b in zip(vals, vals[1:])):
-            raise FuelsysInputError("the true boiling curve converted from the D86 points does not rise "
-                                    "steadily; check the D86 points")
+            raise FuelsysInputError("the true boiling curve does not rise steadily; check the distillation points")
         self.tbp = dict(zip(pts, vals))
         self._tbp_x = np.array(pts, dtype=float)
         self._tbp_t = np.array(vals, dtype=float)
