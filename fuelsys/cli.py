@@ -83,7 +83,18 @@ def _version() -> str:
 
 
 def _cmd_demo(args) -> int:
-    property_tables(sys.stdout)
+    import warnings
+
+    from fuelsys.errors import ValidityWarning
+
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ValidityWarning)
+        property_tables(sys.stdout)
+    notes = sorted({str(w.message) for w in caught if issubclass(w.category, ValidityWarning)})
+    if notes:
+        print("\nOutside a correlation's fitted range (computed, but treat with care):")
+        for n in notes:
+            print(f"- {n}")
     print()
     print(CAUTIONS)
     return 0
