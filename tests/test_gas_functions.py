@@ -41,3 +41,12 @@ def test_bad_inputs_are_error_texts():
     assert call("FS_CANISTER_PRESSURE", "air", 20).startswith("FS error: gas: air is not a canister gas")
     assert call("FS_CANISTER_PRESSURE", "lpg-60-30", 20).startswith("FS error: gas: LPG blend")
     assert call("FS_CANISTER_PRESSURE", "propane", 120).startswith("FS error: temp_c 120.0 °C is outside")
+
+
+def test_used_pct_lowers_a_blend_pressure():
+    full = call("FS_CANISTER_PRESSURE", "lpg-70-30", 20)
+    half = call("FS_CANISTER_PRESSURE", "lpg-70-30", 20, 50)
+    assert half < full
+    assert call("FS_CANISTER_PRESSURE", "lpg-70-30", 20, None) == full   # empty cell takes the default 0
+    assert call("FS_CANISTER_PRESSURE", "propane", 20, 50) == pytest.approx(call("FS_CANISTER_PRESSURE", "propane", 20))
+    assert call("FS_CANISTER_PRESSURE", "lpg-70-30", 20, 100).startswith("FS error: used_pct")

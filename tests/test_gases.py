@@ -501,3 +501,53 @@ def test_info_rows():
     assert d["propane by mass"][1] == pytest.approx(70.0)
     assert all(len(r) == 3 for r in rows)
     assert all(not (isinstance(r[1], float) and not math.isfinite(r[1])) for r in rows)
+
+
+# ---------------------------------------------------------------------------
+# canister draw-down (Rayleigh distillation)
+# ---------------------------------------------------------------------------
+
+def test_canister_pressure_falls_as_gas_is_drawn():
+    g = get_gas("lpg-70-30")
+    d = np.array([0.0, 0.2, 0.5, 0.8, 0.95])
+    p = g.canister_pressure(293.15, d)
+    assert np.all(np.diff(p) < 0)
+    assert p[0] == pytest.approx(g.vapour_pressure(293.15), rel=1e-12)
+    assert p[-1] > get_gas("butane").vapour_pressure(293.15)
+    # a pure fluid keeps its pressure
+    assert get_gas("propane").canister_pressure(293.15, 0.9) == get_gas("propane").vapour_pressure(293.15)
+
+
+def test_rayleigh_against_constant_volatility_closed_form():
+    # Rayleigh (1902) equation for constant relative volatility alpha
+    # (Seader & Henley, Separation Process Principles, 2nd ed., eq. 13-4, from memory):
+    # ln(L/L0) = [ln(x/x0) + alpha ln((1-x0)/(1-x))] / (alpha - 1).
+    # alpha from CoolProp's HEOS mixture at the initial bubble point (plain
+    # Raoult's law would give 4.6 instead of about 4.06 here); it drifts a
+    # little as the liquid changes, so allow 2 % on the propane mole fraction.
+    g = get_gas("lpg-50-50")
+    T, drawn = 273.15, 0.6
+    x0 = g.mole_fractions["propane"]
+    AS = CP.AbstractState("HEOS", "Propane&n-Butane")
+    AS.set_mole_fractions([x0, 1 - x0])
+    AS.update(CP.QT_INPUTS, 0, T)
+    y0 = AS.mole_fractions_vapor()[0]
+    alpha = (y0 / x0) / ((1 - y0) / (1 - x0))
+    w = g.canister_liquid_mass_fractions(T, drawn)
+    Mp, Mb = 0.04409562, 0.0581222
+    x = (w["propane"] / Mp) / (w["propane"] / Mp + w["n-butane"] / Mb)
+    # moles left from the mass left: n/n0 = (1 - drawn) M0/M
+    M0 = 1 / (0.5 / Mp + 0.5 / Mb)
+    M = 1 / (w["propane"] / Mp + w["n-butane"] / Mb)
+    target = np.log((1 - drawn) * M0 / M)
+    lo, hi = 1e-9, x0        # ln(L/L0) rises monotonically with x on (0, x0)
+    for _ in range(200):
+        mid = 0.5 * (lo + hi)
+        f = (np.log(mid / x0) + alpha * np.log((1 - x0) / (1 - mid))) / (alpha - 1)
+        lo, hi = (mid, hi) if f < target else (lo, mid)
+    assert x == pytest.approx(0.5 * (lo + hi), rel=0.02)
+
+
+def test_canister_drawn_out_of_range():
+    with pytest.raises(FuelsysInputError, match="0..0.99"):
+        get_gas("lpg-70-30").canister_pressure(293.15, 1.0)

@@ -14,15 +14,19 @@ _GAS_DOC = ("propane, butane, isobutane, or a blend lpg-XX-YY (propane/n-butane,
     name="FS_CANISTER_PRESSURE", category="gas",
     summary="Gauge pressure in a gas canister from the temperature of the liquid in it",
     args=[Arg("gas", "text", "-", _GAS_DOC),
-          Arg("temp_c", "number", "°C", "temperature of the liquid in the canister", gt=-273.15)],
+          Arg("temp_c", "number", "°C", "temperature of the liquid in the canister", gt=-273.15),
+          Arg("used_pct", "number", "% mass",
+              "share of the canister's contents already drawn off as gas (canister upright)",
+              default=0.0, low=0, high=99)],
     returns=Returns("number", "bar gauge",
-                    "bubble-point pressure of the full canister's liquid minus 1.01325 bar "
+                    "bubble-point pressure of the canister's liquid minus 1.01325 bar "
                     "(negative: below atmospheric, the gas will not flow out)"),
     source="saturation pressure from CoolProp reference equations of state (Lemmon et al. 2009 "
            "propane; Bücker & Wagner 2006 butanes); blends by the modified Raoult's law with a "
-           "virial vapour phase (Smith, Van Ness & Abbott 2005, §14.1)",
+           "virial vapour phase (Smith, Van Ness & Abbott 2005, §14.1); liquid left after "
+           "drawing gas by Rayleigh distillation (Rayleigh 1902)",
 )
-def fs_canister_pressure(gas, temp_c):
+def fs_canister_pressure(gas, temp_c, used_pct):
     """Canister pressure [bar gauge] of ``gas`` with its liquid at ``temp_c`` [°C].
 
     Parameters
@@ -31,6 +35,8 @@ def fs_canister_pressure(gas, temp_c):
         Gas name, see :func:`fuelsys.fuels.gases.get_gas` [-]
     temp_c : array_like
         Liquid temperature [°C]
+    used_pct : array_like
+        Share of the original contents drawn off as gas [% mass]
 
     Returns
     -------
@@ -53,4 +59,5 @@ def fs_canister_pressure(gas, temp_c):
         raise FuelsysInputError(f"gas: {gas} is not a canister gas; use propane, butane, isobutane "
                                 "or a blend lpg-XX-YY / lpg-XX-YY-iso")
     T = fluid.check_temperature(np.asarray(temp_c, dtype=float) + T0_C, "temp_c")
-    return (np.asarray(fluid.canister_pressure(T)) - P_ATM) / 1e5
+    drawn = np.asarray(used_pct, dtype=float) / 100.0
+    return (np.asarray(fluid.canister_pressure(T, drawn)) - P_ATM) / 1e5
