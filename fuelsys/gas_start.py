@@ -433,17 +433,25 @@ def mass_flux_fanno(p0, T0, p_back, gamma, R, fL_D, Z=1.0):
     M1c = np.where(X > 0, _mach_from_fanno(np.maximum(X, 1e-300), g), 1.0)
     p_star = exit_p(M1c, np.ones_like(M1c))
     choked = pb <= p_star
-    # unchoked: bisection on M1 in (0, M1c) for exit pressure = back pressure
-    lo = np.full(M1c.shape, 1e-8)
-    hi = M1c.copy()
-    for _ in range(60):
-        mid = 0.5 * (lo + hi)
-        F2 = _fanno_raw(mid, g) - X
-        M2 = np.where(X > 0, _mach_from_fanno(np.maximum(F2, 1e-300), g, iters=60), mid)
-        too_fast = exit_p(mid, M2) < pb
-        hi = np.where(too_fast, mid, hi)
-        lo = np.where(too_fast, lo, mid)
-    M1 = np.where(choked, M1c, 0.5 * (lo + hi))
+    M1 = M1c.copy()
+    un = ~choked
+    if np.any(un):
+        # unchoked: bisection on M1 in (0, M1c) for exit pressure = back pressure (those points only)
+        gu, Xu, pbu, M1cu = g[un], X[un], pb[un], M1c[un]
+        p0u = p0[un]
+        lo = np.full(M1cu.shape, 1e-8)
+        hi = M1cu.copy()
+        for _ in range(48):
+            mid = 0.5 * (lo + hi)
+            F2 = _fanno_raw(mid, gu) - Xu
+            M2 = np.where(Xu > 0, _mach_from_fanno(np.maximum(F2, 1e-300), gu, iters=48), mid)
+            eu = (gu - 1.0) / 2.0
+            p2 = (p0u * (1 + eu * mid**2) ** (-gu / (gu - 1)) * (mid / M2)
+                  * np.sqrt((1 + eu * mid**2) / (1 + eu * M2**2)))
+            too_fast = p2 < pbu
+            hi = np.where(too_fast, mid, hi)
+            lo = np.where(too_fast, lo, mid)
+        M1[un] = 0.5 * (lo + hi)
     return _out(flux(M1)), _out(choked.astype(float))
 
 
@@ -585,16 +593,22 @@ def jet_bore_for_flow(gas, mass_flow, length, p_up, p_down, T, cd=CD_JET):
         if np.any(m_ref <= 0):
             raise FuelsysInputError("no gas flows at these pressures (upstream equals downstream)")
         return _out(ref * np.sqrt(m / m_ref))
-    shape = np.broadcast(m, L, np.asarray(p_up), np.asarray(p_down), np.asarray(T)).shape
-    lo = np.full(shape, np.log(1e-5))
-    hi = np.full(shape, np.log(2e-2))
-    for _ in range(45):
-        mid = 0.5 * (lo + hi)
-        q = np.asarray(jet_mass_flow(gas, np.exp(mid), L, p_up, p_down, T, cd))
-        small = q < m
-        lo = np.where(small, mid, lo)
-        hi = np.where(small, hi, mid)
-    return _out(np.exp(0.5 * (lo + hi)))
+    # secant iteration in ln(flow) against ln(bore), started from the orifice size
+    m_ref = np.asarray(jet_mass_flow(gas, ref, 0.0, p_up, p_down, T, cd))
+    x0 = np.log(ref * np.sqrt(m / m_ref))
+    x1 = x0 + np.log(1.3)
+    f0 = np.log(np.asarray(jet_mass_flow(gas, np.exp(x0), L, p_up, p_down, T, cd))) - np.log(m)
+    f1 = np.log(np.asarray(jet_mass_flow(gas, np.exp(x1), L, p_up, p_down, T, cd))) - np.log(m)
+    for _ in range(30):
+        slope = np.where(np.abs(f1 - f0) > 0, (f1 - f0) / np.where(x1 != x0, x1 - x0, 1.0), 2.0)
+        slope = np.clip(slope, 0.5, 5.0)  # flow grows as bore^2 (orifice) to bore^2.5..5 (long tube)
+        x2 = x1 - f1 / slope
+        x0, f0 = x1, f1
+        x1 = x2
+        f1 = np.log(np.asarray(jet_mass_flow(gas, np.exp(x1), L, p_up, p_down, T, cd))) - np.log(m)
+        if np.all(np.abs(f1) < 1e-10):
+            break
+    return _out(np.exp(x1))
 
 
 # -- canister chill ---------------------------------------------------------------------------
