@@ -475,16 +475,15 @@ def _gnielinski_raw(Re, Pr):
 
 
 def _nusselt_mean_raw(Re, Pr, L, d, laminar, property_factor):
-    """Unchecked core of :func:`nusselt_tube_mean` (arrays in, arrays out, L > 0)."""
-    lam_re = np.minimum(Re, RE_LAMINAR)
-    turb_re = np.maximum(Re, RE_TURBULENT)
-    entry = 1.0 + (d / L) ** (2.0 / 3.0)
-    nu_lam = _laminar_raw(laminar, lam_re, Pr, L, d)
-    nu_turb = _gnielinski_raw(turb_re, Pr) * entry * property_factor
+    """Unchecked core of :func:`nusselt_tube_mean` (arrays in, arrays out, L > 0).
+
+    The laminar correlation is evaluated at min(Re, 2300) and Gnielinski's
+    at max(Re, 10^4), so one weighted sum covers the three regimes.
+    """
     g = _transition_weight(Re)
-    nu_mid = (1.0 - g) * _laminar_raw(laminar, RE_LAMINAR, Pr, L, d) + g * (
-        _gnielinski_raw(RE_TURBULENT, Pr) * entry * property_factor)
-    return np.where(Re <= RE_LAMINAR, nu_lam, np.where(Re >= RE_TURBULENT, nu_turb, nu_mid))
+    nu_lam = _laminar_raw(laminar, np.minimum(Re, RE_LAMINAR), Pr, L, d)
+    nu_turb = _gnielinski_raw(np.maximum(Re, RE_TURBULENT), Pr) * (1.0 + (d / L) ** (2.0 / 3.0)) * property_factor
+    return (1.0 - g) * nu_lam + g * nu_turb
 
 
 def nusselt_tube_segment(Re, Pr, x1, x2, d, laminar=LAMINAR_DEFAULT, property_factor=1.0):
@@ -541,11 +540,21 @@ def nusselt_tube_segment(Re, Pr, x1, x2, d, laminar=LAMINAR_DEFAULT, property_fa
 
 
 def _segment_raw(Re, Pr, x1, x2, d, laminar, property_factor):
-    """Unchecked core of :func:`nusselt_tube_segment`."""
-    up = x2 * _nusselt_mean_raw(Re, Pr, x2, d, laminar, property_factor)
+    """Unchecked core of :func:`nusselt_tube_segment`.
+
+    Segment mean of the blend = blend of the segment means (the blend is
+    linear in the Nusselt numbers); the turbulent entry factor integrates to
+    ``1 + d^(2/3) (x2^(1/3) - x1^(1/3)) / (x2 - x1)``.
+    """
+    g = _transition_weight(Re)
+    re_lam = np.minimum(Re, RE_LAMINAR)
+    up = x2 * _laminar_raw(laminar, re_lam, Pr, x2, d)
     safe = np.maximum(x1, 1e-300)
-    low = np.where(x1 > 0, x1 * _nusselt_mean_raw(Re, Pr, safe, d, laminar, property_factor), 0.0)
-    return (up - low) / (x2 - x1)
+    low = np.where(x1 > 0, x1 * _laminar_raw(laminar, re_lam, Pr, safe, d), 0.0)
+    seg_lam = (up - low) / (x2 - x1)
+    entry = 1.0 + d ** (2.0 / 3.0) * (np.cbrt(x2) - np.cbrt(x1)) / (x2 - x1)
+    seg_turb = _gnielinski_raw(np.maximum(Re, RE_TURBULENT), Pr) * entry * property_factor
+    return (1.0 - g) * seg_lam + g * seg_turb
 
 
 # ---------------------------------------------------------------------------
