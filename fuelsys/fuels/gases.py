@@ -26,6 +26,15 @@ in a canister; for water within 0.01 % of the 1-atm value below 100 °C).  Air
 has no liquid in fuelsys's range: its ``density``/``kinematic_viscosity``/
 ``specific_heat``/``conductivity`` give the gas at 1 atm.
 
+Heating value: ``lhv_gas`` is the lower heating value of the gaseous fuel at
+25 °C (the value tables quote: propane 46.33 MJ/kg) from the molecular
+formula and NIST standard enthalpies of formation; ``lhv`` is that of the
+liquid at 25 °C, the reference state of :meth:`CoolPropFluid.enthalpy`
+(lower by the enthalpy from saturated liquid to ideal gas, 0.37 MJ/kg for
+propane), so that energy balances with :meth:`enthalpy` count the
+vaporisation once.  ``stoich_far`` from the formula with dry air of ISO 2533.
+Water and air are not fuels: both raise :class:`FuelsysInputError`.
+
 Gas-phase methods (for the vaporiser, engine and gas-jet modules)
 -----------------------------------------------------------------
 Every :class:`CoolPropFluid` also has real-gas properties of its **vapour**
@@ -90,7 +99,17 @@ vapour's mole fraction in the gas being at most p_sat/P.
 A blend's liquid mixing rules: volume additivity for density, Grunberg-Nissan
 without interaction term for viscosity, mass-weighted heat capacity, the
 Vredeveld power rule for conductivity, mole-fraction average for surface
-tension.
+tension.  A blend's liquid range ends at 0.9 Tc of its lightest
+component (about 60 °C for propane blends), the range over which the phase
+equilibrium was checked.
+
+Canister pressure
+-----------------
+:meth:`CoolPropFluid.canister_pressure` is the bubble-point pressure of the
+liquid in the canister.  For a blend the liquid's composition follows
+Rayleigh distillation as gas is drawn off the top (``drawn`` = share of the
+original liquid mass already used), so the pressure falls as the propane
+boils off first; ``drawn=0`` gives the full canister.
 
 References
 ----------
@@ -732,6 +751,24 @@ class CoolPropFluid(Fuel):
 
     # -- checks --------------------------------------------------------------
     def check_temperature(self, T, what="temperature"):
+        """Return ``T`` as an array; raise when outside ``[t_min, t_max]``.
+
+        Parameters
+        ----------
+        T : array_like
+            Temperature [K]
+        what : str
+            Name of the quantity in the message [-]
+
+        Returns
+        -------
+        ndarray
+            ``T`` as floats [K].
+
+        References
+        ----------
+        Range: triple point to 0.99 Tc (blends 0.9 Tc), see the module docstring.
+        """
         self._ensure()
         return super().check_temperature(T, what)
 
