@@ -1214,20 +1214,29 @@ def raoult_flash(K, z, za, zh, tol=1e-14, maxiter=200):
     all_liq = no_air & (f_1 <= 0)
     active = ~(all_vap | all_liq)
     a = 0.5 * (lo + hi)
+    # iterate on the unfinished points only (flattened), so the cost follows the points
+    # that still need steps rather than the slowest one
+    a_f, lo_f, hi_f = a.reshape(-1).copy(), lo.reshape(-1).copy(), hi.reshape(-1).copy()
+    n_comp = K.shape[-1]
+    K_f, z_f = K.reshape(-1, n_comp), z.reshape(-1, n_comp)
+    za_f, zh_f = za.reshape(-1), zh.reshape(-1)
+    idx = np.flatnonzero(active.reshape(-1))
     for _ in range(maxiter):
-        if not np.any(active):
+        if idx.size == 0:
             break
-        f, df = _rr_residual(a, K, z, za, zh)
+        ai, li, hi_i = a_f[idx], lo_f[idx], hi_f[idx]
+        f, df = _rr_residual(ai, K_f[idx], z_f[idx], za_f[idx], zh_f[idx])
         pos = f > 0
-        hi = np.where(active & pos, a, hi)
-        lo = np.where(active & ~pos, a, lo)
+        hi_i = np.where(pos, ai, hi_i)
+        li = np.where(pos, li, ai)
         with np.errstate(divide="ignore", invalid="ignore"):
-            an = a - f / df
-        bad = ~np.isfinite(an) | (an <= lo) | (an >= hi)
-        an = np.where(bad, 0.5 * (lo + hi), an)
-        done = (np.abs(an - a) < tol) | (hi - lo < tol)
-        a = np.where(active, an, a)
-        active = active & ~done
+            an = ai - f / df
+        bad = ~np.isfinite(an) | (an <= li) | (an >= hi_i)
+        an = np.where(bad, 0.5 * (li + hi_i), an)
+        done = (np.abs(an - ai) < tol) | (hi_i - li < tol)
+        a_f[idx], lo_f[idx], hi_f[idx] = an, li, hi_i
+        idx = idx[~done]
+    a = a_f.reshape(shape)
     alpha = np.where(all_vap, 0.0, np.where(all_liq, 1.0, a))
     a = alpha[..., None]
     with np.errstate(divide="ignore", invalid="ignore"):
