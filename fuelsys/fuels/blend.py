@@ -663,11 +663,9 @@ class OilBlend(Fuel):
         return self.fuel.dew_point(P, np.asarray(far, dtype=float) * self.fuel_mass_share)
 
     def _flash(self, T, P, far):
-        # the fuel's flash checks T against the fuel's range for evaporation; the oil
-        # stays liquid throughout, its model extrapolated (and flagged) above OIL_T_MAX
-        out = self.fuel.flash(T, P, far, n_heavy=self.n_oil, volatile_share=self.fuel_mass_share)
-        warn_validity("turbine-oil liquid model", "temperature", T, self.oil.t_min, self.oil.t_max, "K")
-        return out
+        # the fuel's flash checks T against the fuel's range for evaporation; the oil stays
+        # liquid throughout (only its sensible heat depends on T: see enthalpy)
+        return self.fuel.flash(T, P, far, n_heavy=self.n_oil, volatile_share=self.fuel_mass_share)
 
     def vapour_fraction(self, T, P, far):
         """Vaporised mass fraction of the blend [0..fuel share] at ``T`` [K], ``P`` [Pa abs], blend/air ratio ``far`` [kg/kg].
@@ -719,6 +717,7 @@ class OilBlend(Fuel):
         vap = fl["vap_mass"]
         liq = self.fuel_mass_share * f.w - vap
         h = np.sum(liq * f._liquid_enthalpy(T) + vap * f._vapour_enthalpy(T), axis=-1)
+        warn_validity("Cragoe (1929) oil heat capacity", "temperature", T, self.oil.t_min, self.oil.t_max, "K")
         h = h + self.oil_mass_share * np.asarray(self.oil.sensible_enthalpy(T))
         return as_float(h)
 

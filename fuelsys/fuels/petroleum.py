@@ -1185,9 +1185,8 @@ def raoult_flash(K, z, za, zh, tol=1e-14, maxiter=200):
     ----------
     Rachford, H. H. and Rice, J. D. (1952) "Procedure for use of electronic
     digital computers in calculating flash vaporization hydrocarbon
-    equilibrium", J. Petrol. Technol. 4(10), 19-20; with an inert and a
-    non-volatile component as in Leibovici, C. F. and Neoschil, J. (1992)
-    Fluid Phase Equilib. 74, 303-308.
+    equilibrium", J. Petrol. Technol. 4(10), 19-20.  The air and oil terms
+    are the standard equation's limits K -> infinity and K = 0.
 
     Examples
     --------
@@ -1292,6 +1291,8 @@ class PetroleumFuel(Fuel):
     d86 : dict
         ASTM D86 points: volume per cent distilled (0 = IBP, 10, 30, 50, 70,
         90, 95, 100 = FBP) -> temperature [K]; 10, 50 and 90 % are required.
+        A missing IBP or FBP is taken from Riazi's (1989) distribution model
+        fitted to the other TBP points (its T0, and its 99 % point for the end).
         Pass None together with ``tbp`` to give the true boiling curve directly.
     viscosity_points : sequence
         Two pairs (temperature [K], kinematic viscosity [m²/s]).
@@ -1864,16 +1865,20 @@ class PetroleumFuel(Fuel):
         zh = np.where(np.isinf(na), 0.0, n_heavy / ntot)
         with np.errstate(over="ignore"):
             K = self._psat(Tf) / Pf[:, None]
-        if np.any(Tf > self.t_max):
-            lo, hi, unit = LEE_KESLER_RANGE["Tr"]
-            warn_validity("Lee-Kesler vapour pressure", "reduced temperature",
-                          Tf[:, None] / self.tc, lo, hi, unit)
         alpha, vap = raoult_flash(K, z, za, zh)
         # vapour moles per kg liquid = vap * ntot; infinite air -> all vaporised
         inf_air = np.isinf(na)
         vap_mol = np.where(inf_air[:, None], nf[None, :], vap * np.where(inf_air, 0.0, ntot)[:, None])
         vap_mass = vap_mol * self.m
         vaporised = np.clip(vap_mass.sum(axis=-1), 0.0, volatile_share)
+        # above the liquid range Lee-Kesler is extrapolated past Tc; that matters only where more
+        # than a trace (0.1 %) of the fuel is left liquid -- where it is all vapour the answer
+        # stands whatever the exact K-values
+        wet_hot = (Tf > self.t_max) & (vaporised < 0.999 * volatile_share)
+        if np.any(wet_hot):
+            lo, hi, unit = LEE_KESLER_RANGE["Tr"]
+            warn_validity("Lee-Kesler vapour pressure (liquid left above the liquid range)",
+                          "reduced temperature", Tf[wet_hot][:, None] / self.tc, lo, hi, unit)
         return {"vaporised": vaporised.reshape(shape), "vap_mass": vap_mass.reshape(shape + (self.m.size,)),
                 "alpha": alpha.reshape(shape)}
 
