@@ -177,3 +177,21 @@ def test_thermo_consistency_of_h_to_c():
     with warnings.catch_warnings():
         warnings.simplefilter("error")
         engine.fuel_air_ratio_energy_balance(450.0, 1000.0, 43e6, y)
+
+
+# -- spreadsheet face ------------------------------------------------------------------
+def test_sheet_case_pressure_and_fuel_demand():
+    from fuelsys.sheet import call
+
+    # full speed gives (PR - 1) x ambient: 1.8 x 1.01325 bar
+    assert call("FS_CASE_PRESSURE", 120000, 120000, 2.8) == pytest.approx(1.8 * 1.01325, rel=1e-9)
+    col = call("FS_CASE_PRESSURE", [[40000], [120000]], 120000, 2.8, 0.9)
+    assert col[1][0] == pytest.approx(1.8 * 0.9, rel=1e-9) and col[0][0] < col[1][0]
+    # fuel demand = air x far / efficiency, in g/min (kerosene's own lhv and stoichiometric ratio)
+    from fuelsys.fuels import get_fuel
+
+    k = get_fuel("kerosene")
+    far = engine.fuel_air_ratio_energy_balance(423.15, 1053.15, k.lhv, engine.fuel_h_to_c(k), 0.9)
+    assert call("FS_FUEL_DEMAND", 250, 150, 780, "kerosene", 0.9) == pytest.approx(0.25 * far * 6e4, rel=1e-9)
+    assert call("FS_FUEL_DEMAND", 250, 800, 700, "kerosene").startswith("FS error: t4 must be above t3")
+    assert call("FS_CASE_PRESSURE", 1000, 0, 2.8).startswith("FS error:")

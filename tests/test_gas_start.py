@@ -162,3 +162,21 @@ def test_bad_input():
         G.canister_chill("propane", 0.2, 0.1, 1e-4, 60.0, 293.15, shell="brass")
     with pytest.raises(FuelsysInputError, match="discharge coefficient"):
         G.jet_mass_flow("propane", 0.3e-3, 0.0, 3e5, 1e5, 293.15, cd=1.5)
+
+
+# -- spreadsheet face ------------------------------------------------------------------
+def test_sheet_gas_functions():
+    from fuelsys.sheet import call
+
+    g = call("FS_GAS_JET_FLOW", 0.3, 0, 3.0, 1.01325, "propane", 20)
+    assert g == pytest.approx(G.jet_mass_flow("propane", 0.3e-3, 0.0, 3e5, 1.01325e5, 293.15) * 6e4, rel=1e-9)
+    col = call("FS_GAS_JET_FLOW", [[0.3], [0.3]], [[0], [30]], 3.0, 1.01325, "propane", 20)
+    assert col[1][0] < col[0][0]
+    assert call("FS_GAS_JET_FLOW", 0.3, 0, 1.0, 3.0, "propane", 20).startswith("FS error: down_bar_abs")
+    assert "liquid" in call("FS_GAS_JET_FLOW", 0.3, 0, 12.0, 1.0, "propane", 20)
+    table = call("FS_CANISTER_CHILL", "propane", 220, 110, 4, 10, 20, "steel", 5.0, 6)
+    assert table[0][:4] == ["minutes", "temp_c", "pressure_bar_abs", "liquid_g"]
+    assert len(table) == 7 and table[-1][0] == pytest.approx(10.0)
+    assert table[-1][1] < table[2][1] < table[1][1] == pytest.approx(20.0)
+    assert table[1][5] == "yes" and table[-1][5] == "no"
+    assert "outside propane's range" in call("FS_CANISTER_CHILL", "propane", 220, 110, 4, 10, 120)

@@ -163,3 +163,49 @@ def test_bad_fits_are_refused():
     qq = np.linspace(1e-6, 5e-6, 6)
     with pytest.raises(FuelsysInputError, match="cannot fix the pump coefficients"):
         P.fit_pump(qq, qq * 1e11, 2.0 + qq * 2e6 + qq * 1e5, 1.3e-3)
+
+
+# -- spreadsheet face ------------------------------------------------------------------
+def _col(a):
+    return [[float(x)] for x in a]
+
+
+def test_sheet_pump_functions():
+    from fuelsys.fuels import get_fuel
+    from fuelsys.sheet import call
+
+    k = get_fuel("kerosene")
+    volts = np.repeat([6.0, 9.0, 12.0], 4)
+    dp = np.tile([0.5e5, 1.5e5, 3.0e5, 4.5e5], 3)
+    t_c = np.repeat([10.0, 40.0, 25.0], 4)
+    T = t_c + 273.15
+    g_min = TRUE.flow(volts, dp, k.dynamic_viscosity(T)) * k.density(T) * 6e4
+    fit = call("FS_PUMP_FIT", _col(g_min), _col(dp / 1e5), _col(volts), "kerosene", _col(t_c))
+    labels, values = fit
+    got = dict(zip(labels, values))
+    assert got["flow_per_volt_ml_min_v"] == pytest.approx(TRUE.phi * 6e7, rel=1e-6)
+    assert got["winding_ohm"] == pytest.approx(1.2, rel=1e-5)
+    assert got["points"] == 12.0
+    # voltage and flow are inverse of each other, at any fuel temperature
+    v = call("FS_PUMP_VOLTS", fit, 200.0, 3.5, "kerosene", 40.0)
+    assert call("FS_PUMP_FLOW", fit, v, 3.5, "kerosene", 40.0) == pytest.approx(200.0, rel=1e-9)
+    # warm fuel slips more: more volts for the same flow
+    assert call("FS_PUMP_VOLTS", fit, 200.0, 3.5, "kerosene", 60.0) > call("FS_PUMP_VOLTS", fit, 200.0, 3.5,
+                                                                            "kerosene", 0.0)
+    # per-cell errors: too little voltage to open the pressure
+    row = call("FS_PUMP_FLOW", fit, [[12.0, 1.0]], 3.5)
+    assert isinstance(row[0][0], float) and row[0][1].startswith("FS error: the pump delivers nothing")
+    # system curve
+    need = call("FS_PUMP_NEED", 260, 1.8, 1.2, 0.3, 0.25, 3, 10)
+    rho = float(k.density(293.15))
+    assert need == pytest.approx((1.8e5 + 1.2e5 + 0.3e5 + rho * 9.80665 * 3 * 0.25) * 1.1 / 1e5, rel=1e-9)
+
+
+def test_sheet_pump_fit_errors():
+    from fuelsys.sheet import call
+
+    four = [[100.0], [120.0], [150.0], [90.0]]
+    assert call("FS_PUMP_FIT", four[:3], four[:3], [[6.0], [9.0], [12.0]]).startswith(
+        "FS error: a pump fit needs at least 4 test points")
+    assert "one voltage" in call("FS_PUMP_FIT", four, [[1.0], [2.0], [3.0], [4.0]], [[12.0]] * 4)
+    assert call("FS_PUMP_VOLTS", [["rms_v"], [0.1]], 100.0, 2.0).startswith("FS error: coefficients")
