@@ -47,6 +47,12 @@ def _gas_names() -> tuple:
     return tuple(GAS_NAMES)
 
 
+def _is_gas_name(key: str) -> bool:
+    from fuelsys.fuels.gases import is_gas_name
+
+    return is_gas_name(key)
+
+
 def known_fuel_names() -> tuple:
     """Every built-in fuel name: the liquids here and the gases of :mod:`fuelsys.fuels.gases`."""
     return LIQUID_FUEL_NAMES + tuple(n for n in _gas_names() if n not in LIQUID_FUEL_NAMES)
@@ -140,7 +146,7 @@ def get_fuel(spec, oil_pct: float = 0.0) -> Fuel:
         key = spec.strip().lower()
         if not key:
             raise FuelsysInputError(f"fuel name is empty; known fuels: {', '.join(known_fuel_names())}")
-        if key in LIQUID_FUEL_NAMES or key in _gas_names():
+        if key in LIQUID_FUEL_NAMES or _is_gas_name(key):
             fuel = _builtin(key)
         elif os.path.splitext(key)[1] in (".csv", ".json") and os.path.isfile(spec.strip()):
             from fuelsys.fuels.library import read_fuel_file

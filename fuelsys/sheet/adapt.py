@@ -172,7 +172,12 @@ def _fuel_arg(arg: catalogue.Arg, value):
         return get_fuel([row[:2] for row in grid])
     if not isinstance(value, str):
         raise CellError(f"{arg.name} must be a fuel name or a fuel table range (got {_describe(value)})")
-    return get_fuel(value.strip())
+    name = value.strip()
+    if "/" in name or "\\" in name or name.lower().endswith((".csv", ".json")):
+        # a workbook must not make fuelsys read files: tables come as ranges
+        raise CellError(f"{arg.name}: in a spreadsheet a fuel is a built-in name or a range holding a fuel "
+                        "table; fuel files are read only through the Python API")
+    return get_fuel(name)
 
 
 # ---------------------------------------------------------------------------
