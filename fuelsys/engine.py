@@ -485,7 +485,7 @@ def fuel_h_to_c(fuel):
     Parameters
     ----------
     fuel : Fuel
-        A fuel object with ``stoich_far`` [kg/kg] (or ``h_to_c`` [-])
+        A fuel object with ``stoich_far`` (or ``h_to_c``) [-]
 
     Returns
     -------

@@ -253,7 +253,22 @@ def molar_entropy(species, T):
 
 # -- fuel and products ------------------------------------------------------
 def o2_mass_fraction_air() -> float:
-    """Mass fraction of oxygen in dry air [-] (CIPM-2007 composition)."""
+    """Mass fraction of oxygen in dry air [-] (CIPM-2007 composition).
+
+    Returns
+    -------
+    float
+        Y_O2 of dry air [-]
+
+    References
+    ----------
+    Picard et al. (2008), Metrologia 45, 149, Table 1.
+
+    Examples
+    --------
+    >>> round(o2_mass_fraction_air(), 4)
+    0.2313
+    """
     return float(Y_AIR[SPECIES.index("O2")])
 
 
