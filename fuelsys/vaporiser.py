@@ -83,10 +83,14 @@ from fuelsys.fuels.base import P_ATM, T0_C
 #: number of axial steps of the march (default); the step-doubling estimate uses half of it
 N_STEPS = 40
 #: temperature nodes of the per-point enthalpy tables used to invert H -> T in the march:
-#: (nodes up to just above the dew point, nodes from there to the hottest wall)
+#: (nodes up to just above the dew point, least number of nodes from there to the hottest wall)
 N_TABLE = (48, 16)
 #: the dense part of the table ends this far above the mixture's dew point [K]
 TABLE_KNEE_K = 20.0
+#: largest node spacing of the table above the knee [K]
+TABLE_UPPER_STEP_K = 5.0
+#: a blend's nodes are flashed up to this far above the knee (fuel dissolved in the oil) [K]
+TABLE_FLASH_SPAN_K = 150.0
 #: default discharge coefficient of a plain tube inlet (Lefebvre & Ballal 2010, ch. 4: plain holes
 #: about 0.6 at low bleed; from memory)
 CD_TUBE_INLET = 0.6
@@ -733,29 +737,38 @@ class _Tables:
     ``tab`` has shape (K, nT, N): for each of N points, temperature nodes in
     two uniform pieces -- ``n_dense`` nodes from ``t_lo`` to the knee
     ``t_knee`` (just above the mixture's dew point, where the fuel
-    evaporates) and ``n_sparse`` nodes from there to ``t_hi``; rows: mixture
-    enthalpy per kg air, vaporised fraction, air cp, fuel-vapour cp, air
-    viscosity, air conductivity, liquid density.
+    evaporates), then nodes at most :data:`TABLE_UPPER_STEP_K` apart up to
+    ``t_hi``; rows: mixture enthalpy per kg air, vaporised fraction, air cp,
+    fuel-vapour cp, air viscosity, air conductivity, liquid density.
 
     Above the knee a plain liquid fuel is all vapour (the fuel model's dew
     point), so its enthalpy there is continued from the knee with the
-    vapour's ideal-gas heat capacity instead of more flash calls; for a blend
-    with oil (fuel stays dissolved in the oil above the dew point) and for
-    CoolProp fluids every node is flashed.
+    vapour's ideal-gas heat capacity instead of more flash calls.  A blend
+    with oil keeps some fuel dissolved in the oil above the dew point: its
+    nodes are flashed up to :data:`TABLE_FLASH_SPAN_K` above the knee (where
+    the dissolved fuel has fallen below 0.1 % of it) and continued with the
+    fuel vapour's and the oil's heat capacities beyond.  CoolProp fluids are
+    flashed at every node.
     """
 
     H, XV, CPA, CPV, MU, K, RHOL = range(7)
 
-    def __init__(self, fuel, t_lo, t_knee, t_hi, P, far, has_fuel, n_dense, n_sparse, shortcut):
+    def __init__(self, fuel, t_lo, t_knee, t_hi, P, far, has_fuel, n_dense, n_upper_min):
         N = t_lo.size
         self.N = N
-        self.nd, self.ns = n_dense, n_sparse
-        self.nT = n_dense + n_sparse
-        self.T0 = t_lo
         t_knee = np.clip(t_knee, t_lo + 1.0, t_hi - 1.0)
+        # each point's upper nodes depend on that point alone (same answer in a batch or alone): spacing
+        # the smaller of the point's own range / n_upper_min and the step; the count is the batch's largest
+        # and a point's surplus nodes run on past its hottest wall
+        own = (t_hi - t_knee) / n_upper_min
+        step = np.minimum(own, TABLE_UPPER_STEP_K)
+        n_upper = int(max(n_upper_min, np.max(np.ceil((t_hi - t_knee) / step - 1e-9))))
+        self.nd, self.ns = n_dense, n_upper
+        self.nT = n_dense + n_upper
+        self.T0 = t_lo
         self.Tk = t_knee
         self.dT1 = (t_knee - t_lo) / (n_dense - 1)
-        self.dT2 = (t_hi - t_knee) / n_sparse
+        self.dT2 = step
         k = np.arange(self.nT)[:, None]
         Tg = np.where(k < n_dense, t_lo + self.dT1 * k, t_knee + self.dT2 * (k - (n_dense - 1)))
         self.Tg = Tg
@@ -765,23 +778,7 @@ class _Tables:
         tab[self.K] = heat._sutherland(Tg, heat.SUTHERLAND_AIR["conductivity"])
         h_air = thermo.enthalpy(Tg)
         if np.any(has_fuel):
-            far_s = np.where(has_fuel, far, 1e-6)
-            cpv = np.asarray(fuel.vapour_specific_heat(Tg), dtype=float)
-            rhol = np.asarray(fuel.density(np.clip(Tg, fuel.t_min, fuel.t_max)), dtype=float)
-            if shortcut:
-                cut = n_dense
-                hf = np.empty_like(Tg)
-                xv = np.ones_like(Tg)
-                Pd = np.broadcast_to(P, (cut, N))
-                fd = np.broadcast_to(far_s, (cut, N))
-                hf[:cut] = fuel.enthalpy(Tg[:cut], Pd, fd)
-                xv[:cut] = fuel.vapour_fraction(Tg[:cut], Pd, fd)
-                # all vapour above the knee: h = h(knee) + integral of the vapour cp (trapezoid)
-                steps = 0.5 * (cpv[cut:] + cpv[cut - 1:-1]) * self.dT2
-                hf[cut:] = hf[cut - 1] + np.cumsum(steps, axis=0)
-            else:
-                hf = np.asarray(fuel.enthalpy(Tg, P[None, :], far_s[None, :]), dtype=float)
-                xv = np.asarray(fuel.vapour_fraction(Tg, P[None, :], far_s[None, :]), dtype=float)
+            hf, xv, cpv, rhol = self._fuel_rows(fuel, Tg, P, np.where(has_fuel, far, 1e-6), n_dense)
         else:
             hf = np.zeros_like(Tg)
             xv = np.ones_like(Tg)
@@ -802,6 +799,47 @@ class _Tables:
         self._offset = np.arange(N) * (2.0 * span + 1.0)
         self._Hflat = (tab[self.H] - Hmin + self._offset[None, :]).T.ravel()
         self._Hmin = Hmin
+
+    @staticmethod
+    def _fuel_rows(fuel, Tg, P, far, n_dense):
+        """Fuel enthalpy [J/kg fuel], vaporised fraction, vapour cp, liquid density at the nodes."""
+        nT, N = Tg.shape
+        cpv = np.asarray(fuel.vapour_specific_heat(Tg), dtype=float)
+        rhol = np.asarray(fuel.density(np.clip(Tg, fuel.t_min, fuel.t_max)), dtype=float)
+        share = 1.0 - _oil_share(fuel)
+        oil = getattr(fuel, "oil", None)
+        first = np.broadcast_to(np.arange(nT)[:, None] < n_dense, (nT, N))
+        oil_h = None
+        if getattr(fuel, "kind", "") != "liquid":
+            flash = np.ones((nT, N), dtype=bool)          # CoolProp fluids: every node
+        elif share == 1.0:
+            flash = first.copy()                          # plain fuel: all vapour above the knee
+        elif oil is not None and hasattr(oil, "sensible_enthalpy"):
+            flash = (Tg <= Tg[n_dense - 1][None, :] + TABLE_FLASH_SPAN_K) | first
+            oil_h = np.asarray(oil.sensible_enthalpy(Tg), dtype=float)
+        else:
+            flash = np.ones((nT, N), dtype=bool)
+        hf = np.empty((nT, N))
+        xv = np.empty((nT, N))
+        Pb = np.broadcast_to(P[None, :], (nT, N))
+        fb = np.broadcast_to(far[None, :], (nT, N))
+        hf[flash] = fuel.enthalpy(Tg[flash], Pb[flash], fb[flash])
+        xv[flash] = fuel.vapour_fraction(Tg[flash], Pb[flash], fb[flash])
+        if not np.all(flash):
+            # continue past the last flashed node (flashed nodes are a prefix of each column):
+            # fuel vapour by its heat capacity (trapezoid), the oil by its own sensible enthalpy
+            last = np.sum(flash, axis=0) - 1
+            inc = np.zeros((nT, N))
+            inc[1:] = 0.5 * (cpv[1:] + cpv[:-1]) * np.diff(Tg, axis=0)
+            cum = share * np.cumsum(inc, axis=0)
+            if oil_h is not None:
+                cum = cum + (1.0 - share) * oil_h
+            cols = np.arange(N)
+            base = hf[last, cols] - cum[last, cols]
+            rest = ~flash
+            hf[rest] = (base[None, :] + cum)[rest]
+            xv[rest] = share
+        return hf, xv, cpv, rhol
 
     def _spacing(self, idx):
         return np.where(idx < self.nd - 1, self.dT1, self.dT2)
@@ -1283,8 +1321,7 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
             t_dew_in = np.asarray(fuel.dew_point(P0, np.where(has_fuel, far, 1e-6)), dtype=float) * np.ones(N)
         else:
             t_dew_in = t_lo + 1.0
-        shortcut = oil_w == 0.0 and getattr(fuel, "kind", "") == "liquid"
-        tables = _Tables(fuel, t_lo, t_dew_in + TABLE_KNEE_K, t_hi, P0, far, has_fuel, n_dense, n_sparse, shortcut)
+        tables = _Tables(fuel, t_lo, t_dew_in + TABLE_KNEE_K, t_hi, P0, far, has_fuel, n_dense, n_sparse)
     # the liquid (oil included) is all in far: the fuel object carries its oil
     ctx = _Context(fuel, m_air, far, np.zeros(N), tables, laminar, inner, M_fuel)
 
@@ -1384,7 +1421,7 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     if np.any(has_fuel):
         with warnings.catch_warnings():
             warnings.simplefilter("ignore", ValidityWarning)
-            grid = _droplet_grid(fuel, float(np.min(t_lo)), float(np.max(t_hi)))
+            grid = _droplet_grid(fuel)
         K_nodes, _ = _droplet_constant(fuel, T_nodes, P_nodes, y_gas, t_bub[None, :], grid)
         sigma = np.asarray(fuel.surface_tension(np.clip(Tfuel, fuel.t_min, fuel.t_max)), dtype=float)
         d_we = heat.WEBER_CRITICAL * sigma / (rho_gas_in * np.maximum(u_nodes[0], 1e-9) ** 2)
@@ -1477,7 +1514,7 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     dew_margin = T_exit - dew
     verdict = _verdicts(N, has_fuel, vap_share, dew_margin, survive, life, t_res, coking, max_wet,
                         coking_limit, flashback, margin, flammable, X_nodes[-1], oil_residue, T_exit,
-                        T_mix, wall_nodes, D0)
+                        Ta, wall_nodes, D0)
 
     def out(a):
         a = np.asarray(a)
@@ -1527,21 +1564,24 @@ def _liquid_enthalpy(fuel, T):
     return 0.5 * (b - a) * np.tensordot(wg, cp, axes=(0, 0))
 
 
-def _droplet_grid(fuel, t_lo, t_hi):
-    """1-D property tables for the droplet model: liquid side and vapour cp."""
-    a = max(float(fuel.t_min), t_lo - 60.0)
-    b = min(float(fuel.t_max), max(t_hi, a + 10.0))
-    tg = np.linspace(a, b, 241)
+def _droplet_grid(fuel):
+    """1-D property tables for the droplet model (fixed nodes: a point's answer is the same in any batch).
+
+    Liquid side from the fuel's lowest temperature (or 200 K) to its highest,
+    vapour heat capacity from 200 K to 2000 K.
+    """
+    a = max(float(fuel.t_min), 200.0)
+    tg = np.linspace(a, float(fuel.t_max), 400)
     lnp = np.log(np.maximum(np.asarray(fuel.vapour_pressure(tg), dtype=float), 1e-300))
     L = np.asarray(fuel.latent_heat(tg), dtype=float)
     rho = np.asarray(fuel.density(tg), dtype=float)
-    tv = np.linspace(min(a, t_lo), max(t_hi, b) + 1.0, 121)
+    tv = np.linspace(200.0, 2000.0, 361)
     cpv = np.asarray(fuel.vapour_specific_heat(tv), dtype=float)
     return tg, lnp, L, rho, cpv, tv
 
 
 def _verdicts(N, has_fuel, vap, dew_margin, survive, life, t_res, coking, max_wet, coking_limit,
-              flashback, margin, flammable, X_exit, oil, T_exit, T_mix, wall_nodes, D0):
+              flashback, margin, flammable, X_exit, oil, T_exit, T_air, wall_nodes, D0):
     """One verdict text per point: level, then the reasons."""
     texts = []
     for i in range(N):
@@ -1549,9 +1589,10 @@ def _verdicts(N, has_fuel, vap, dew_margin, survive, life, t_res, coking, max_we
         if not has_fuel[i]:
             texts.append("no fuel: air only (exit %.0f °C)" % (T_exit[i] - T0_C))
             continue
-        if np.all(wall_nodes[:, i] <= T_mix[i]):
-            reasons.append("wall no hotter than the inlet mixture: the tube cannot vaporise the fuel")
-            level = 2
+        if np.all(wall_nodes[:, i] <= T_air[i]):
+            reasons.append(f"wall (at most {np.max(wall_nodes[:, i]) - T0_C:.0f} °C) no hotter than the inlet air "
+                           f"({T_air[i] - T0_C:.0f} °C): the tube adds no useful heat")
+            level = max(level, 1)
         if vap[i] >= 1.0 - 1e-9:
             reasons.append(f"fully vaporised at the exit (equilibrium), {dew_margin[i]:.0f} K above the dew point")
         else:
