@@ -155,6 +155,20 @@ def _solve_reynolds(Be, lam, K0, eD, turb):
     return np.exp(s), K, f
 
 
+def _needle_dp_and_slope(q, D, L, rho, mu, k_ent, cd, eD, turb):
+    """Signed dp for a signed needle flow ``q`` and d dp / d q (> 0), for network solves.
+
+    Returns dp, d dp/d q, Re, K and f; finite through zero flow (``Re K`` stays
+    finite as Re -> 0).
+    """
+    Re = np.maximum(4.0 * np.abs(q) / (cd * _PI * D * mu), 1e-300)
+    K, slope, f = _k_total(Re, L / D, k_ent + fittings.EXIT_K, eD, turb)
+    c = 0.5 * (mu / D) ** 2 / rho
+    dp = np.sign(q) * c * Re * Re * K
+    ddp = c * Re * K * (2.0 + slope) * 4.0 / (cd * _PI * D * mu)
+    return dp, ddp, Re, K, f
+
+
 def _flag_validity(Re, lam, K, f, k_ent, eD):
     """Flag terms used outside their correlation's range where they matter."""
     K = np.asarray(K)
@@ -481,8 +495,10 @@ def liquid_properties(fuel, T):
 
     Examples
     --------
-    >>> from fuelsys.fuels import get_fuel            # doctest: +SKIP
-    >>> liquid_properties(get_fuel("water"), 293.15)  # doctest: +SKIP
+    >>> from fuelsys.fuels import get_fuel
+    >>> rho, mu = liquid_properties(get_fuel("kerosene"), 288.15)
+    >>> 780 < rho < 820 and 1e-3 < mu < 2.5e-3
+    True
     """
     T = fuel.check_temperature(T)
     return fuel.density(T), fuel.dynamic_viscosity(T)
@@ -517,8 +533,10 @@ def needle_flow_fuel(dp, bore, length, fuel, T, **options):
 
     Examples
     --------
-    >>> from fuelsys.fuels import get_fuel                                   # doctest: +SKIP
-    >>> needle_flow_fuel(1e5, 0.4e-3, 40e-3, get_fuel("kerosene"), 293.15)  # doctest: +SKIP
+    >>> from fuelsys.fuels import get_fuel
+    >>> m = needle_flow_fuel(1e5, 0.25e-3, 40e-3, get_fuel("kerosene"), 293.15)
+    >>> 5 < m * 60e3 < 15          # g/min
+    True
     """
     rho, mu = liquid_properties(fuel, T)
     return needle_flow(dp, bore, length, rho, mu, **options)
@@ -553,8 +571,10 @@ def needle_dp_fuel(mdot, bore, length, fuel, T, **options):
 
     Examples
     --------
-    >>> from fuelsys.fuels import get_fuel                                   # doctest: +SKIP
-    >>> needle_dp_fuel(1e-4, 0.4e-3, 40e-3, get_fuel("kerosene"), 293.15)   # doctest: +SKIP
+    >>> from fuelsys.fuels import get_fuel
+    >>> dp = needle_dp_fuel(10e-3 / 60, 0.25e-3, 40e-3, get_fuel("kerosene"), 293.15)
+    >>> 0.5e5 < dp < 2e5
+    True
     """
     rho, mu = liquid_properties(fuel, T)
     return needle_dp(mdot, bore, length, rho, mu, **options)
