@@ -16,6 +16,8 @@ from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
 
 _FUEL = Arg("fuel", "fuel", "-", "built-in fuel name or a fuel table range", default="kerosene")
 _TEMP = Arg("temp_c", "number", "°C", "fuel temperature", default=20.0, gt=-273.15)
+_OIL = Arg("oil_pct", "number", "% vol", "turbine oil mixed into the fuel", default=0.0, low=0, high=20,
+           group=True)
 _COEF = Arg("coefficients", "cells", "-", "the range FS_PUMP_FIT returned (labels and values)")
 #: combustion efficiency default: small vaporiser engines run a few per cent short of complete
 #: combustion (common practice, no source)
@@ -140,13 +142,13 @@ def fs_fuel_demand(air_g_s, t3_c, t4_c, fuel, efficiency):
           Arg("head_m", "number", "m", "height of the injectors above the tank", default=0.0, low=-5, high=5),
           Arg("g_load", "number", "-", "manoeuvre load factor along that height", default=1.0, low=0, high=20),
           Arg("margin_pct", "number", "%", "safety margin on the total", default=0.0, low=0, high=200),
-          _FUEL, _TEMP],
+          _FUEL, _TEMP, _OIL],
     returns=Returns("number", "bar gauge", "pressure needed at the pump outlet"),
     source="sum of series losses plus hydrostatic head ρ g n h (White, Fluid Mechanics 7th ed. §6.9); "
            "fuel density from the fuel model",
 )
 def fs_pump_need(flow_g_min, case_bar_gauge, needle_dp_bar, line_dp_bar, head_m, g_load, margin_pct, fuel,
-                 temp_c):
+                 temp_c, oil_pct):
     """Pump outlet pressure [bar gauge] the system needs.
 
     Parameters
@@ -169,6 +171,8 @@ def fs_pump_need(flow_g_min, case_bar_gauge, needle_dp_bar, line_dp_bar, head_m,
         The fuel [-]
     temp_c : array_like
         Fuel temperature [°C]
+    oil_pct : float
+        Turbine oil in the fuel [% vol]
 
     Returns
     -------
@@ -179,6 +183,7 @@ def fs_pump_need(flow_g_min, case_bar_gauge, needle_dp_bar, line_dp_bar, head_m,
     ----------
     :func:`fuelsys.pump.system_pressure`.
     """
+    fuel = fuel.with_oil(oil_pct)
     from fuelsys import pump
 
     rho = np.asarray(_liquid(fuel).density(_kelvin(fuel, temp_c)))
@@ -200,7 +205,8 @@ def fs_pump_need(flow_g_min, case_bar_gauge, needle_dp_bar, line_dp_bar, head_m,
           Arg("winding_ohm", "number", "Ω", "motor resistance measured across its terminals (optional)",
               default=None, low=0, high=100),
           Arg("kv_rpm_per_v", "number", "rpm/V", "motor speed constant from its data sheet (optional)",
-              default=None, gt=0)],
+              default=None, gt=0),
+          _OIL],
     returns=Returns("table", "-", "a row of labels over a row of values: flow per volt (mL/min/V), winding "
                                   "resistance (Ω), friction current (A), slip (mm³), fit viscosity, "
                                   "RMS error (V), R², condition number, points"),
@@ -208,7 +214,7 @@ def fs_pump_need(flow_g_min, case_bar_gauge, needle_dp_bar, line_dp_bar, head_m,
            "DC motor V = RI + kω, T = kI (Fitzgerald, Kingsley & Umans 2003 §7.2); least squares "
            "(scipy.optimize.least_squares), standard errors from the Jacobian (Bates & Watts 1988)",
 )
-def fs_pump_fit(flows_g_min, pressures_bar, volts, fuel, temp_c, winding_ohm, kv_rpm_per_v):
+def fs_pump_fit(flows_g_min, pressures_bar, volts, fuel, temp_c, winding_ohm, kv_rpm_per_v, oil_pct):
     """Pump fit as a labelled table.
 
     Parameters
@@ -223,6 +229,8 @@ def fs_pump_fit(flows_g_min, pressures_bar, volts, fuel, temp_c, winding_ohm, kv
         Test fuel [-]
     temp_c : ndarray or float
         Fuel temperature(s) [°C]
+    oil_pct : float
+        Turbine oil in the fuel [% vol]
     winding_ohm : float or None
         Measured motor resistance [Ω]
     kv_rpm_per_v : float or None
@@ -237,6 +245,7 @@ def fs_pump_fit(flows_g_min, pressures_bar, volts, fuel, temp_c, winding_ohm, kv
     ----------
     :func:`fuelsys.pump.fit_pump`.
     """
+    fuel = fuel.with_oil(oil_pct)
     from fuelsys import pump
 
     q_g = np.atleast_1d(np.asarray(flows_g_min, dtype=float))
@@ -268,11 +277,11 @@ def _pump(coefficients):
     args=[_COEF,
           Arg("flow_g_min", "number", "g/min", "fuel flow wanted", low=0),
           Arg("p_bar_gauge", "number", "bar gauge", "pump outlet pressure (from FS_PUMP_NEED)", low=0),
-          _FUEL, _TEMP],
+          _FUEL, _TEMP, _OIL],
     returns=Returns("number", "V", "motor terminal voltage"),
     source="the fitted gear-pump and DC-motor model (Wilson 1949; Fitzgerald et al. 2003 §7.2)",
 )
-def fs_pump_volts(coefficients, flow_g_min, p_bar_gauge, fuel, temp_c):
+def fs_pump_volts(coefficients, flow_g_min, p_bar_gauge, fuel, temp_c, oil_pct):
     """Voltage [V] for a flow [g/min] against a pressure [bar gauge].
 
     Parameters
@@ -287,6 +296,8 @@ def fs_pump_volts(coefficients, flow_g_min, p_bar_gauge, fuel, temp_c):
         The fuel [-]
     temp_c : array_like
         Fuel temperature [°C]
+    oil_pct : float
+        Turbine oil in the fuel [% vol]
 
     Returns
     -------
@@ -297,6 +308,7 @@ def fs_pump_volts(coefficients, flow_g_min, p_bar_gauge, fuel, temp_c):
     ----------
     :meth:`fuelsys.pump.GearPump.volts`.
     """
+    fuel = fuel.with_oil(oil_pct)
     pmp = _pump(coefficients)
     T = _kelvin(_liquid(fuel), temp_c)
     q = np.asarray(flow_g_min, dtype=float) / 6e4 / np.asarray(fuel.density(T))
@@ -309,11 +321,11 @@ def fs_pump_volts(coefficients, flow_g_min, p_bar_gauge, fuel, temp_c):
     args=[_COEF,
           Arg("volts", "number", "V", "motor terminal voltage", low=0),
           Arg("p_bar_gauge", "number", "bar gauge", "pump outlet pressure", low=0),
-          _FUEL, _TEMP],
+          _FUEL, _TEMP, _OIL],
     returns=Returns("number", "g/min", "fuel flow delivered"),
     source="the fitted gear-pump and DC-motor model (Wilson 1949; Fitzgerald et al. 2003 §7.2)",
 )
-def fs_pump_flow(coefficients, volts, p_bar_gauge, fuel, temp_c):
+def fs_pump_flow(coefficients, volts, p_bar_gauge, fuel, temp_c, oil_pct):
     """Flow [g/min] at a voltage against a pressure; refused where the pump cannot flow.
 
     Parameters
@@ -328,6 +340,8 @@ def fs_pump_flow(coefficients, volts, p_bar_gauge, fuel, temp_c):
         The fuel [-]
     temp_c : array_like
         Fuel temperature [°C]
+    oil_pct : float
+        Turbine oil in the fuel [% vol]
 
     Returns
     -------
@@ -338,6 +352,7 @@ def fs_pump_flow(coefficients, volts, p_bar_gauge, fuel, temp_c):
     ----------
     :meth:`fuelsys.pump.GearPump.flow`.
     """
+    fuel = fuel.with_oil(oil_pct)
     pmp = _pump(coefficients)
     T = _kelvin(_liquid(fuel), temp_c)
     mu = fuel.dynamic_viscosity(T)

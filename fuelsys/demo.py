@@ -1,0 +1,96 @@
+"""The demo engine: a scenario of our own invention.
+
+The *Moorhen MT-80* is a fictional 80 N-class turbojet built by the members of
+the fictional *Lindale Vale Model Engineering Club*.  Every number here is
+invented for the demo (plausible for the engine class, but no real engine's
+data): it fills the starter workbook and ``examples/``, and ``fuelsys demo``
+sizes its fuel system.  Replace them with your own engine's figures.
+"""
+
+from __future__ import annotations
+
+ENGINE_NAME = "Moorhen MT-80 (fictional demo engine)"
+CLUB_NAME = "Lindale Vale Model Engineering Club (fictional)"
+
+#: engine, invented: design point and operating points from idle to full power
+ENGINE = {
+    "rpm_max": 118000.0,          # full speed [rpm]
+    "pr_max": 2.6,                # compressor pressure ratio at full speed [-]
+    "ambient_bar_abs": 1.01325,   # ambient pressure [bar abs]
+    "ambient_c": 15.0,            # ambient temperature [°C]
+    "compressor_eff": 0.72,       # compressor isentropic efficiency [-]
+    "combustion_eff": 0.95,       # combustion efficiency [-]
+    "liner_dp_pct": 4.0,          # liner pressure drop, per cent of case pressure [%]
+    # operating points: speed [rpm], air flow [g/s], turbine inlet [°C], thrust [N]
+    "points": (
+        (38000.0, 52.0, 640.0, 4.0),
+        (60000.0, 85.0, 620.0, 14.0),
+        (80000.0, 120.0, 660.0, 30.0),
+        (100000.0, 158.0, 740.0, 54.0),
+        (118000.0, 190.0, 850.0, 80.0),
+    ),
+}
+
+#: fuel, invented choices
+FUEL = {
+    "name": "kerosene",
+    "oil_pct": 5.0,               # turbine oil in the fuel [% vol]
+    "cold_c": -5.0,               # fuel temperature on a cold day [°C]
+    "hot_c": 35.0,                # fuel temperature on a hot day [°C]
+}
+
+#: needles and manifold, invented
+NEEDLES = {
+    "gauge": 23,
+    "wall": "normal",
+    "count": 6,
+    "length_mm": 30.0,
+    "ring_bore_mm": 3.0,          # ring tube inside diameter [mm]
+    "ring_dia_mm": 80.0,          # ring centre-line diameter [mm]
+    "bore_tol_mm": 0.02,          # bore tolerance (half band) [mm]
+    "length_tol_mm": 0.5,         # length tolerance (half band) [mm]
+    # bench test with water: mL collected in 60 s at 1.0 bar, 20 °C; needle 4 runs low
+    "bench": ((60.0, 1.0, 20.0), (33.1, 32.8, 33.4, 29.0, 33.0, 32.6)),
+}
+
+#: vaporiser tubes, invented
+VAPORISER = {
+    "tube_bore_mm": 6.0,
+    "heated_length_mm": 90.0,
+    "wall_c": 650.0,              # tube wall temperature [°C]
+    "cd": 0.7,                    # tube inlet discharge coefficient [-]
+}
+
+#: fuel lines and pump, invented; the test points were made with fuelsys.pump.GearPump.physical(
+#: 1.0e-6, 0.8, 0.5, 1.75e-15) on kerosene with 5 % oil, plus 0.4 % random scatter, then rounded
+PUMP = {
+    "line_bore_mm": 2.5,
+    "line_length_m": 0.8,
+    "k_total": 8.0,               # filter, valve and fittings loss coefficients [-]
+    "head_m": 0.1,                # injectors above the tank [m]
+    "g_load": 3.0,                # manoeuvre load factor [-]
+    "margin_pct": 15.0,           # margin on the pressure needed [%]
+    "battery_v": 7.4,             # battery voltage under load [V]
+    # bench test points: flow [g/min], outlet pressure [bar gauge], volts [V], fuel temperature [°C]
+    "tests": (
+        (118.2, 1.0, 3.0, 12.0),
+        (247.6, 3.0, 6.0, 12.0),
+        (375.9, 5.0, 9.0, 12.0),
+        (263.4, 1.0, 6.0, 12.0),
+        (104.9, 2.0, 3.0, 28.0),
+        (228.5, 4.0, 6.0, 28.0),
+        (393.4, 2.0, 9.0, 28.0),
+        (365.6, 5.0, 9.0, 28.0),
+    ),
+}
+
+#: gas start, invented
+GAS = {
+    "gas": "propane",
+    "liquid_g": 180.0,            # liquid in the canister [g]
+    "shell_g": 110.0,             # empty canister [g]
+    "jet_bore_mm": 0.35,
+    "jet_length_mm": 12.0,
+    "line_bar_abs": 2.5,          # regulated pressure before the jet [bar abs]
+    "flow_minutes": 3.0,          # length of a start run [min]
+}
