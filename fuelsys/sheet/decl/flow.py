@@ -1,0 +1,346 @@
+"""Spreadsheet functions for needles, the ring manifold, fuel lines and bench tests.
+
+Units at this face: bores and needle lengths in mm, line lengths in m,
+pressures in bar (a difference, or "gauge" where the name says so), flows in
+g/min (mass) or mL/min (volume at the fuel's temperature), temperatures in
+°C.  The fuel is a built-in name or a fuel-table range; liquid fuels take an
+optional ``oil_pct``.  ``entrance`` is the needle inlet: square (flush,
+K 0.5), reentrant (protruding, 0.78), borda (thin edge far in, 1.0), rounded
+(0.04), or a loss coefficient typed as a number.
+"""
+
+from __future__ import annotations
+
+import warnings
+
+import numpy as np
+
+from fuelsys.errors import FuelsysInputError, ValidityWarning
+from fuelsys.fuels.base import T0_C
+from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
+
+_G_MIN = 1e-3 / 60.0          # 1 g/min in kg/s
+_ML_MIN = 1e-6 / 60.0         # 1 mL/min in m³/s
+_BAR = 1e5
+
+_FUEL = Arg("fuel", "fuel", "-", "built-in fuel name (kerosene, water, ...) or a fuel table range")
+_TEMP = Arg("temp_c", "number", "°C", "fuel temperature", gt=-273.15)
+_OIL = Arg("oil_pct", "number", "% vol", "turbine oil mixed into the fuel", default=0.0, low=0, high=20,
+           group=True)
+_ENTRANCE = Arg("entrance", "text", "-", "needle inlet: square, reentrant, borda, rounded, or a loss "
+                "coefficient", default="square")
+_BORE = Arg("bore_mm", "number", "mm", "needle bore (inside diameter)", gt=0)
+_LENGTH = Arg("length_mm", "number", "mm", "needle length", gt=0)
+_GAUGE = Arg("gauge", "number", "-", "needle gauge number, 10..34 (ISO 9626)", integer=True)
+
+_NEEDLE_SOURCE = ("dp = (K_entrance + 1 + f_app L/D) rho u^2/2: Shah (1978) developing laminar flow blended "
+                  "into turbulent flow by Churchill (1977); entrance K from Crane TP-410 (2009) and Idelchik "
+                  "(1996); drawn-tubing roughness 1.5 um (Moody 1944)")
+_ISO_SOURCE = "ISO 9626:2016 Table 1 (values from memory, not checked against the printed standard)"
+
+
+def _entrance(text):
+    """A key of the entrance table, or a typed loss coefficient."""
+    try:
+        return float(text)
+    except (TypeError, ValueError):
+        return text
+
+
+def _props(fuel, temp_c, oil_pct):
+    """Liquid density [kg/m³] and viscosity [Pa·s] of the fuel (with oil) at temp_c [°C]."""
+    f = fuel.with_oil(oil_pct) if oil_pct else fuel
+    T = f.check_temperature(np.asarray(temp_c, dtype=float) + T0_C, "temp_c")
+    return f.density(T), f.dynamic_viscosity(T)
+
+
+@spreadsheet_function(
+    name="FS_NEEDLE_BORE", category="needles and lines",
+    summary="Minimum bore of needle tubing of a gauge and wall class (ISO 9626)",
+    args=[_GAUGE,
+          Arg("wall", "text", "-", "wall class: normal, thin, extra-thin (RW, TW, ETW)", default="normal")],
+    returns=Returns("number", "mm", "the standard's minimum inside diameter; a measured bore is better"),
+    source=_ISO_SOURCE,
+)
+def fs_needle_bore(gauge, wall):
+    """Minimum bore [mm] of ``gauge`` [-] tubing with ``wall`` class [-]."""
+    from fuelsys.flow.tubing import needle_bore
+
+    return np.round(np.asarray(needle_bore(gauge, wall)) * 1e3, 9)
+
+
+@spreadsheet_function(
+    name="FS_NEEDLE_OD", category="needles and lines",
+    summary="Outside diameter of needle tubing of a gauge (ISO 9626)",
+    args=[_GAUGE,
+          Arg("limit", "text", "-", "mid (middle of the allowed range), min, max or nominal", default="mid")],
+    returns=Returns("number", "mm", "outside diameter"),
+    source=_ISO_SOURCE,
+)
+def fs_needle_od(gauge, limit):
+    """Outside diameter [mm] of ``gauge`` [-] tubing; ``limit`` [-] picks which."""
+    from fuelsys.flow.tubing import needle_od
+
+    return np.round(np.asarray(needle_od(gauge, limit)) * 1e3, 9)
+
+
+def _flow(bore_mm, length_mm, dp_bar, fuel, temp_c, oil_pct, entrance):
+    from fuelsys.flow.needle import needle_flow
+
+    rho, mu = _props(fuel, temp_c, oil_pct)
+    m = needle_flow(np.asarray(dp_bar) * _BAR, np.asarray(bore_mm) * 1e-3, np.asarray(length_mm) * 1e-3,
+                    rho, mu, entrance=_entrance(entrance))
+    return m, rho, mu
+
+
+@spreadsheet_function(
+    name="FS_NEEDLE_FLOW", category="needles and lines",
+    summary="Mass flow through an injector needle at a pressure drop",
+    args=[_BORE, _LENGTH, Arg("dp_bar", "number", "bar", "pressure drop across the needle", gt=0),
+          _FUEL, _TEMP, _OIL, _ENTRANCE],
+    returns=Returns("number", "g/min", "mass flow through the needle"),
+    source=_NEEDLE_SOURCE,
+)
+def fs_needle_flow(bore_mm, length_mm, dp_bar, fuel, temp_c, oil_pct, entrance):
+    """Needle mass flow [g/min] from bore [mm], length [mm], dp [bar], fuel, temperature [°C]."""
+    return _flow(bore_mm, length_mm, dp_bar, fuel, temp_c, oil_pct, entrance)[0] / _G_MIN
+
+
+@spreadsheet_function(
+    name="FS_NEEDLE_FLOW_ML", category="needles and lines",
+    summary="Volume flow through an injector needle at a pressure drop (at the fuel temperature)",
+    args=[_BORE, _LENGTH, Arg("dp_bar", "number", "bar", "pressure drop across the needle", gt=0),
+          _FUEL, _TEMP, _OIL, _ENTRANCE],
+    returns=Returns("number", "mL/min", "volume flow through the needle, at the fuel's temperature"),
+    source=_NEEDLE_SOURCE,
+)
+def fs_needle_flow_ml(bore_mm, length_mm, dp_bar, fuel, temp_c, oil_pct, entrance):
+    """Needle volume flow [mL/min] from bore [mm], length [mm], dp [bar], fuel, temperature [°C]."""
+    m, rho, _ = _flow(bore_mm, length_mm, dp_bar, fuel, temp_c, oil_pct, entrance)
+    return m / rho / _ML_MIN
+
+
+def _dp(bore_mm, length_mm, mdot, fuel, temp_c, oil_pct, entrance):
+    from fuelsys.flow.needle import needle_dp
+
+    rho, mu = _props(fuel, temp_c, oil_pct)
+    return needle_dp(mdot(rho), np.asarray(bore_mm) * 1e-3, np.asarray(length_mm) * 1e-3, rho, mu,
+                     entrance=_entrance(entrance)) / _BAR
+
+
+@spreadsheet_function(
+    name="FS_NEEDLE_DP", category="needles and lines",
+    summary="Pressure drop across an injector needle passing a mass flow",
+    args=[_BORE, _LENGTH, Arg("flow_g_min", "number", "g/min", "mass flow through the needle", gt=0),
+          _FUEL, _TEMP, _OIL, _ENTRANCE],
+    returns=Returns("number", "bar", "pressure drop from the manifold to the space the jet enters"),
+    source=_NEEDLE_SOURCE,
+)
+def fs_needle_dp(bore_mm, length_mm, flow_g_min, fuel, temp_c, oil_pct, entrance):
+    """Needle pressure drop [bar] from bore [mm], length [mm], flow [g/min], fuel, temperature [°C]."""
+    return _dp(bore_mm, length_mm, lambda rho: np.asarray(flow_g_min) * _G_MIN, fuel, temp_c, oil_pct, entrance)
+
+
+@spreadsheet_function(
+    name="FS_NEEDLE_DP_ML", category="needles and lines",
+    summary="Pressure drop across an injector needle passing a volume flow (at the fuel temperature)",
+    args=[_BORE, _LENGTH, Arg("flow_ml_min", "number", "mL/min", "volume flow through the needle", gt=0),
+          _FUEL, _TEMP, _OIL, _ENTRANCE],
+    returns=Returns("number", "bar", "pressure drop from the manifold to the space the jet enters"),
+    source=_NEEDLE_SOURCE,
+)
+def fs_needle_dp_ml(bore_mm, length_mm, flow_ml_min, fuel, temp_c, oil_pct, entrance):
+    """Needle pressure drop [bar] from bore [mm], length [mm], flow [mL/min], fuel, temperature [°C]."""
+    return _dp(bore_mm, length_mm, lambda rho: rho * np.asarray(flow_ml_min) * _ML_MIN, fuel, temp_c, oil_pct,
+               entrance)
+
+
+@spreadsheet_function(
+    name="FS_NEEDLE_REYNOLDS", category="needles and lines",
+    summary="Reynolds number of the flow in a needle bore",
+    args=[_BORE, Arg("flow_g_min", "number", "g/min", "mass flow through the needle", gt=0), _FUEL, _TEMP, _OIL],
+    returns=Returns("number", "-", "Reynolds number 4 m / (pi D mu); laminar below about 2000"),
+    source="definition (Reynolds 1883); viscosity from the fuel model",
+)
+def fs_needle_reynolds(bore_mm, flow_g_min, fuel, temp_c, oil_pct):
+    """Reynolds number [-] from bore [mm], flow [g/min], fuel, temperature [°C]."""
+    from fuelsys.flow.needle import needle_reynolds
+
+    _, mu = _props(fuel, temp_c, oil_pct)
+    return needle_reynolds(np.asarray(flow_g_min) * _G_MIN, np.asarray(bore_mm) * 1e-3, mu)
+
+
+@spreadsheet_function(
+    name="FS_NEEDLE_VELOCITY", category="needles and lines",
+    summary="Mean velocity in a needle bore (the jet velocity)",
+    args=[_BORE, Arg("flow_g_min", "number", "g/min", "mass flow through the needle", gt=0), _FUEL, _TEMP, _OIL],
+    returns=Returns("number", "m/s", "mean velocity 4 m / (rho pi D^2)"),
+    source="continuity; density from the fuel model",
+)
+def fs_needle_velocity(bore_mm, flow_g_min, fuel, temp_c, oil_pct):
+    """Jet velocity [m/s] from bore [mm], flow [g/min], fuel, temperature [°C]."""
+    from fuelsys.flow.needle import needle_velocity
+
+    rho, _ = _props(fuel, temp_c, oil_pct)
+    return needle_velocity(np.asarray(flow_g_min) * _G_MIN, np.asarray(bore_mm) * 1e-3, rho)
+
+
+@spreadsheet_function(
+    name="FS_BORE_FROM_TEST", category="needles and lines",
+    summary="Effective bore of a needle from a bench test (volume collected in a time at a pressure)",
+    args=[Arg("volume_ml", "number", "mL", "volume collected from the needle", gt=0),
+          Arg("time_s", "number", "s", "collection time", gt=0),
+          Arg("dp_bar", "number", "bar", "test pressure drop across the needle", gt=0),
+          _LENGTH,
+          Arg("fluid", "fuel", "-", "test liquid: water, kerosene or a fuel table range"),
+          Arg("temp_c", "number", "°C", "test liquid temperature", gt=-273.15),
+          _ENTRANCE],
+    returns=Returns("number", "mm", "the bore with which the needle model passes the measured flow"),
+    source=f"inverse of the needle model on bore (Chandrupatla 1997 root search); {_NEEDLE_SOURCE}",
+)
+def fs_bore_from_test(volume_ml, time_s, dp_bar, length_mm, fluid, temp_c, entrance):
+    """Effective bore [mm] from volume [mL], time [s], dp [bar], length [mm], fluid and temperature [°C]."""
+    from fuelsys.flow.bench import bench_mass_flow, effective_bore
+
+    rho, mu = _props(fluid, temp_c, 0.0)
+    m = bench_mass_flow(np.asarray(volume_ml) * 1e-6, time_s, rho)
+    return effective_bore(m, np.asarray(dp_bar) * _BAR, np.asarray(length_mm) * 1e-3, rho, mu,
+                          entrance=_entrance(entrance)) * 1e3
+
+
+@spreadsheet_function(
+    name="FS_ODD_NEEDLES", category="needles and lines",
+    summary="Each needle's flow against the set's median, flagging the odd ones",
+    args=[Arg("flows", "range", "any", "flows (or volumes collected in the same time) of the needles of a set",
+              gt=0),
+          Arg("threshold_pct", "number", "%", "allowed deviation from the median", default=5.0, gt=0)],
+    returns=Returns("table", "%", "one row per needle: deviation from the median [%] and ok / ODD"),
+    source="deviation from the set's median (a robust centre: Hampel et al. 1986)",
+)
+def fs_odd_needles(flows, threshold_pct):
+    """Rows (deviation [%], "ok"/"ODD") for the needle ``flows`` [any unit] and ``threshold_pct`` [%]."""
+    from fuelsys.flow.bench import odd_needles
+
+    dev, odd = odd_needles(flows, threshold_pct / 100.0)
+    return [[float(d * 100.0), "ODD" if o else "ok"] for d, o in zip(dev, odd)]
+
+
+@spreadsheet_function(
+    name="FS_MANIFOLD_SPLIT", category="needles and lines",
+    summary="Flow of each needle round a ring manifold fed at one point",
+    args=[Arg("bores_mm", "range", "mm", "bore of each needle, in order round the ring from the feed", gt=0),
+          Arg("length_mm", "range", "mm", "needle length: one value for all, or one per needle", gt=0),
+          Arg("supply_bar_gauge", "number", "bar gauge", "pressure at the ring's feed point"),
+          Arg("case_bar_gauge", "number", "bar gauge", "pressure the needles discharge into"),
+          Arg("ring_bore_mm", "number", "mm", "inside diameter of the ring tube", gt=0),
+          Arg("ring_dia_mm", "number", "mm", "diameter of the ring's centre line", gt=0),
+          _FUEL, _TEMP, _OIL, _ENTRANCE],
+    returns=Returns("table", "g/min", "a column: the mass flow of each needle, in the order given"),
+    source=("node and loop balances of the ring network solved by Newton's method (Jeppson 1976); ring "
+            f"friction Churchill (1977); needles: {_NEEDLE_SOURCE}"),
+)
+def fs_manifold_split(bores_mm, length_mm, supply_bar_gauge, case_bar_gauge, ring_bore_mm, ring_dia_mm, fuel,
+                      temp_c, oil_pct, entrance):
+    """Column of needle flows [g/min] for the ring; bores and lengths [mm], pressures [bar gauge]."""
+    from fuelsys.flow.manifold import ring_manifold
+
+    bores = np.asarray(bores_mm, dtype=float)
+    lengths = np.asarray(length_mm, dtype=float)
+    if lengths.size not in (1, bores.size):
+        raise FuelsysInputError(f"length_mm must hold one value or one per needle ({bores.size}); "
+                                f"got {lengths.size}")
+    rho, mu = _props(fuel, temp_c, oil_pct)
+    r = ring_manifold(bores * 1e-3, lengths * 1e-3, supply_bar_gauge * _BAR, case_bar_gauge * _BAR,
+                      ring_bore_mm * 1e-3, ring_dia_mm * 1e-3, float(rho), float(mu), entrance=_entrance(entrance))
+    return [[float(q / _G_MIN)] for q in r.flows]
+
+
+# ID tolerance of hypodermic tubing by gauge, US/Stubs nominal sizes (Wikipedia "Needle gauge comparison
+# chart"): +-0.003 in for 7..14G, +-0.0015 in for 15..19G, +-0.00075 in for 20G and finer.
+def _default_bore_tol_mm(gauge: int) -> float:
+    if gauge <= 14:
+        return 0.003 * 25.4
+    if gauge <= 19:
+        return 0.0015 * 25.4
+    return 0.00075 * 25.4
+
+
+@spreadsheet_function(
+    name="FS_TOLERANCE_SPREAD", category="needles and lines",
+    summary="Spread of flows between the needles of a set from bore and length tolerances",
+    args=[_GAUGE,
+          Arg("wall", "text", "-", "wall class: normal, thin, extra-thin"),
+          Arg("needles", "number", "-", "needles in one set (one engine)", integer=True, low=2, high=200),
+          _LENGTH,
+          Arg("dp_bar", "number", "bar", "pressure drop every needle sees", gt=0),
+          _FUEL, _TEMP,
+          Arg("bore_tol_mm", "number", "mm", "bore tolerance, half-width of the band; empty: the usual ID "
+              "tolerance of hypodermic tubing for the gauge", default=None, low=0),
+          Arg("length_tol_mm", "number", "mm", "length tolerance, half-width of the band", default=0.0, low=0),
+          Arg("samples", "number", "-", "sets drawn (samples x needles at most 1e6)", default=2000, integer=True,
+              low=1, high=100000),
+          Arg("seed", "number", "-", "seed of the random draw (same seed, same result)", default=1, integer=True,
+              low=0)],
+    returns=Returns("table", "-", "labelled rows: nominal and mean flow [g/min], spread between needles "
+                    "(CV) [%], worst low and high needle [%], bore sensitivity, validity"),
+    source=("Monte Carlo with numpy's PCG64 stream, deviations uniform within the bands, bores centred "
+            "bore_tol above the ISO 9626 minimum; default ID tolerance of hypodermic tubing from the needle "
+            f"gauge comparison chart (Wikipedia); needle model: {_NEEDLE_SOURCE}"),
+)
+def fs_tolerance_spread(gauge, wall, needles, length_mm, dp_bar, fuel, temp_c, bore_tol_mm, length_tol_mm,
+                        samples, seed):
+    """Labelled table of the tolerance study; sizes [mm], dp [bar], temperature [°C]."""
+    from fuelsys.flow.tolerance import tolerance_study
+    from fuelsys.flow.tubing import needle_bore, od_range
+
+    g = int(gauge)
+    if int(samples) * int(needles) > 1_000_000:
+        raise FuelsysInputError(f"samples x needles must be at most 1e6 (got {int(samples) * int(needles):g})")
+    bore_min = needle_bore(g, wall)
+    tol = _default_bore_tol_mm(g) if bore_tol_mm is None else float(bore_tol_mm)
+    rho, mu = _props(fuel, temp_c, 0.0)
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ValidityWarning)
+        r = tolerance_study(bore_min + tol * 1e-3, length_mm * 1e-3, dp_bar * _BAR, float(rho), float(mu),
+                            int(needles), tol * 1e-3, length_tol_mm * 1e-3, samples=int(samples), seed=int(seed),
+                            od_min=od_range(g)[0])
+    notes = sorted({str(w.message).split(":")[0] for w in caught if issubclass(w.category, ValidityWarning)})
+    pct = 100.0
+    return [
+        ["nominal bore", (bore_min + tol * 1e-3) * 1e3, "mm"],
+        ["bore tolerance", tol, "mm"],
+        ["nominal flow per needle", r["nominal_flow"] / _G_MIN, "g/min"],
+        ["mean flow per needle", r["mean_flow"] / _G_MIN, "g/min"],
+        ["spread between needles (CV), mean of sets", r["cv_mean"] * pct, "%"],
+        ["spread between needles (CV), 95th percentile", r["cv_p95"] * pct, "%"],
+        ["worst low needle, typical set", r["low_typical"] * pct, "%"],
+        ["worst high needle, typical set", r["high_typical"] * pct, "%"],
+        ["worst low needle, all sets", r["low_worst"] * pct, "%"],
+        ["worst high needle, all sets", r["high_worst"] * pct, "%"],
+        ["flow sensitivity to bore (d ln q / d ln D)", r["bore_sensitivity"], "-"],
+        ["sets drawn", float(int(samples)), "-"],
+        ["validity", "ok" if not notes else "outside range: " + "; ".join(notes), "-"],
+    ]
+
+
+@spreadsheet_function(
+    name="FS_LINE_DP", category="needles and lines",
+    summary="Pressure drop of a fuel line: tube friction plus fittings, filter and valves",
+    args=[Arg("bore_mm", "number", "mm", "inside diameter of the line", gt=0),
+          Arg("length_m", "number", "m", "line length", gt=0),
+          Arg("flow_g_min", "number", "g/min", "mass flow in the line", gt=0),
+          _FUEL, _TEMP,
+          Arg("k_total", "number", "-", "sum of loss coefficients of fittings, filter and valves", default=0.0,
+              low=0),
+          _OIL],
+    returns=Returns("number", "bar", "pressure drop of the line"),
+    source="dp = (f L/D + K) rho u^2/2, f from Churchill (1977) all regimes, drawn-tubing roughness 1.5 um "
+           "(Moody 1944); loss coefficients as in Crane TP-410 (2009)",
+)
+def fs_line_dp(bore_mm, length_m, flow_g_min, fuel, temp_c, k_total, oil_pct):
+    """Line pressure drop [bar] from bore [mm], length [m], flow [g/min], fuel, temperature [°C], K [-]."""
+    from fuelsys.flow.lines import line_dp
+
+    rho, mu = _props(fuel, temp_c, oil_pct)
+    return line_dp(np.asarray(flow_g_min) * _G_MIN, np.asarray(bore_mm) * 1e-3, length_m, rho, mu,
+                   k_total=k_total) / _BAR
