@@ -97,6 +97,11 @@ CD_TUBE_INLET = 0.6
 #: JFTOT test temperature of ASTM D3241 / specification limit of ASTM D1655 (Jet A-1): a fuel-wetted
 #: wall above it is taken as a deposit (coking) risk [K]
 COKING_LIMIT = 260.0 + T0_C
+#: fuel-vapour heat capacities are taken at no more than this temperature (the vapour ranges of the fuel
+#: models end here; a mixture inside a vaporiser tube stays far below it) [K]
+T_VAPOUR_CP_MAX = 1500.0
+#: share of the fuel still liquid above which a wall counts as wetted by fuel [-]
+WET_SHARE = 1e-3
 #: tolerance on the step-doubling estimate of the exit temperature before the march is flagged [K]
 STEP_TOLERANCE_K = 0.5
 #: tolerance on the energy balance (wall heat against enthalpy rise) before the march is flagged [-]
@@ -676,8 +681,9 @@ class VaporiserResult:
         vapour mixture (0 where not flammable) [m/s]
     flashback_margin : smallest velocity / turbulent flame speed where the mixture is
         flammable along the tube; inf where it is nowhere flammable [-]
-    max_wet_wall : hottest inner wall where fuel liquid is present (equilibrium) [K]
-    max_wall : hottest inner wall anywhere (the oil wets it all) [K]
+    max_wet_wall : hottest inner wall where liquid is present: more than 0.1 % of the fuel still
+        liquid there (equilibrium), or anywhere when the fuel carries oil; NaN where no wall is wet [K]
+    max_wall : hottest inner wall anywhere [K]
     coking_risk : max_wet_wall above the coking limit [-]
     oil_residue : oil leaving the tube as liquid [kg/s]
     pressure_drop : static pressure drop over the heated length, friction + acceleration [Pa]
@@ -804,7 +810,7 @@ class _Tables:
     def _fuel_rows(fuel, Tg, P, far, n_dense):
         """Fuel enthalpy [J/kg fuel], vaporised fraction, vapour cp, liquid density at the nodes."""
         nT, N = Tg.shape
-        cpv = np.asarray(fuel.vapour_specific_heat(Tg), dtype=float)
+        cpv = np.asarray(fuel.vapour_specific_heat(np.minimum(Tg, T_VAPOUR_CP_MAX)), dtype=float)
         rhol = np.asarray(fuel.density(np.clip(Tg, fuel.t_min, fuel.t_max)), dtype=float)
         share = 1.0 - _oil_share(fuel)
         oil = getattr(fuel, "oil", None)
@@ -987,6 +993,23 @@ def _transfer(ctx, leg, T, pr, x1, x2, wall_guess):
     return UA, tw, tw, UA * (tw - T), Re, Pr
 
 
+def _flame_side_bound(f, d, L, m_air, t_in):
+    """Upper bound of the gas temperature a flame-heated tube can reach [K].
+
+    The gas heats no faster than through the wall and outer resistances
+    alone (inner resistance 0, radiation at its steepest tangent, the
+    mixture's heat capacity at least 1000 J/(kg K) of air):
+    ``T <= T_f - (T_f - T_in) exp(-UA_max L / (m_air 1000))``.
+    """
+    do = d + 2.0 * f["thickness"]
+    rw = np.log(do / d) / (2.0 * np.pi * f["conductivity"])
+    tf = f["gas_temperature"]
+    g_rad = 2.5 * 0.5 * heat.SIGMA_SB * (1.0 + f["emissivity_wall"]) * f["emissivity_gas"] * tf ** 3
+    g_out = np.pi * do * (f["h_out"] + g_rad)
+    ua = 1.0 / (rw + 1.0 / np.maximum(g_out, 1e-30))
+    return tf - (tf - t_in) * np.exp(-ua * L / (m_air * 1000.0))
+
+
 def _exp_step(c, drive, ntu):
     """Enthalpy change c * drive * (1 - exp(-ntu)) per kg air, safe for tiny ntu."""
     return c * drive * -np.expm1(-ntu)
@@ -1062,27 +1085,54 @@ def _node_walls(ctx, leg, record, n):
 
 # -- droplets --------------------------------------------------------------------
 
-def _droplet_constant(fuel, T_gas, P, y_gas, t_bub, grid):
+class _DropletGrid:
+    """Per-point tables of the liquid's vapour pressure, latent heat and density for the droplet model.
+
+    Nodes run uniformly from the fuel's lowest temperature (or 200 K) to the
+    liquid's bubble point at the point's case pressure -- the hottest a drop
+    surface can be; each point's nodes depend on that point alone.  The
+    vapour heat capacity is tabulated on fixed nodes 200-2000 K.
+    """
+
+    def __init__(self, fuel, t_bub, n=160):
+        self.a = max(float(fuel.t_min), 200.0)
+        self.b = np.maximum(np.minimum(t_bub + 0.5, float(fuel.t_max)), self.a + 1.0)
+        self.n = n
+        Tg = self.a + np.linspace(0.0, 1.0, n)[:, None] * (self.b - self.a)[None, :]
+        self.lnp = np.log(np.maximum(np.asarray(fuel.vapour_pressure(Tg), dtype=float), 1e-300))
+        self.L = np.asarray(fuel.latent_heat(Tg), dtype=float)
+        self.rho = np.asarray(fuel.density(Tg), dtype=float)
+        self.tv = np.linspace(200.0, T_VAPOUR_CP_MAX, 261)
+        self.cpv = np.asarray(fuel.vapour_specific_heat(self.tv), dtype=float)
+        self.cols = np.arange(t_bub.size)
+
+    def at(self, table, T):
+        s = (T - self.a) / (self.b - self.a) * (self.n - 1)
+        idx = np.clip(np.floor(s).astype(np.intp), 0, self.n - 2)
+        w = s - idx
+        cols = np.broadcast_to(self.cols, T.shape)
+        return table[idx, cols] * (1.0 - w) + table[idx + 1, cols] * w
+
+
+def _droplet_constant(fuel, T_gas, P, y_gas, grid):
     """d²-law evaporation constant K [m²/s] at local conditions (wet-bulb surface temperature).
 
     Solves B_T(T_s) = B_M(T_s) for the surface temperature by bisection on
-    tabulated liquid properties (``grid``), then ``K = 8 k ln(1+B)/(rho_l cp)``
-    with film properties at the mean of T_s and T_gas (Law & Williams'
-    rule as in Turns, ch. 3): cp of the fuel vapour, k of air.
+    the tabulated liquid properties (:class:`_DropletGrid`), then
+    ``K = 8 k ln(1+B)/(rho_l cp)`` with film properties at the mean of T_s
+    and T_gas (Law & Williams' rule as in Turns, ch. 3): cp of the fuel
+    vapour, k of air.  K = 0 where the gas is saturated with vapour.
     """
-    tg, lnp, L, rho, cpv_grid, tgrid_v = grid
     Mf = fuel.molar_mass
-    a = np.full_like(T_gas, tg[0])
-    b = np.minimum(T_gas, np.minimum(t_bub, tg[-1]))
-    b = np.maximum(b, a)
+    a = np.full_like(T_gas, grid.a)
+    b = np.maximum(np.minimum(T_gas, grid.b[None, :]), a)
 
     def f(Ts):
-        ps = np.exp(np.interp(Ts, tg, lnp))
+        ps = np.exp(grid.at(grid.lnp, Ts))
         X = np.minimum(ps / P, 1.0 - 1e-12)
         Ys = X * Mf / (X * Mf + (1.0 - X) * thermo.M_AIR)
-        tbar = 0.5 * (Ts + T_gas)
-        cp = np.interp(tbar, tgrid_v, cpv_grid)
-        bt = cp * (T_gas - Ts) / np.interp(Ts, tg, L)
+        cp = np.interp(0.5 * (Ts + T_gas), grid.tv, grid.cpv)
+        bt = cp * (T_gas - Ts) / grid.at(grid.L, Ts)
         bm = (Ys - y_gas) / (1.0 - Ys)
         return bt - bm, bt
 
@@ -1090,7 +1140,7 @@ def _droplet_constant(fuel, T_gas, P, y_gas, t_bub, grid):
     fb, _ = f(b)
     evaporates = (fb < 0) & (fa > 0)
     lo, hi = a.copy(), b.copy()
-    for _ in range(48):
+    for _ in range(44):
         mid = 0.5 * (lo + hi)
         fm, _ = f(mid)
         pos = fm > 0
@@ -1100,10 +1150,9 @@ def _droplet_constant(fuel, T_gas, P, y_gas, t_bub, grid):
     _, B = f(Ts)
     B = np.where(evaporates, np.maximum(B, 0.0), 0.0)
     tbar = 0.5 * (Ts + T_gas)
-    cp = np.interp(tbar, tgrid_v, cpv_grid)
+    cp = np.interp(tbar, grid.tv, grid.cpv)
     k = heat._sutherland(tbar, heat.SUTHERLAND_AIR["conductivity"])
-    rho_l = np.interp(Ts, tg, rho)
-    return 8.0 * k * np.log1p(B) / (rho_l * cp), Ts
+    return 8.0 * k * np.log1p(B) / (grid.at(grid.rho, Ts) * cp), Ts
 
 
 # -- input handling ----------------------------------------------------------------
@@ -1292,7 +1341,8 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
         names = ("gas_temperature", "h_out", "emissivity_gas", "emissivity_wall", "thickness", "conductivity")
         wall_data = dict(zip(names, _as_points(shape, *[getattr(wall, nm) for nm in names])))
         t_wall_min = np.minimum(Ta, wall_data["gas_temperature"])
-        t_wall_max = np.maximum(Ta, wall_data["gas_temperature"])
+        t_wall_max = np.maximum(Ta, np.minimum(wall_data["gas_temperature"], _flame_side_bound(
+            wall_data, d, L, m_air, np.maximum(Ta, Tfuel))))
     if inner_htc is not None:
         inner = _as_points(shape, _require_positive("inner heat-transfer coefficient", inner_htc, 1.0, "W/(m² K)"))[0]
     else:
@@ -1404,9 +1454,14 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     t_res = time_nodes[-1]
 
     # ---- wetted wall and oil ------------------------------------------------------
-    liquid_nodes = has_fuel[None, :] & (xv_nodes < volatile * (1.0 - 1e-9))
+    # wetted: more than WET_SHARE of the fuel still liquid there, or oil in the fuel (the oil never
+    # vaporises, so it wets the whole tube)
+    wet_oil = has_fuel & (oil_w > 0)
+    liquid_nodes = has_fuel[None, :] & ((xv_nodes < volatile * (1.0 - WET_SHARE)) | wet_oil[None, :])
     mid_wall = np.asarray(record["mid_wall"])
-    liquid_mid = has_fuel[None, :] & (np.asarray(record["mid_xv"]) < volatile * (1.0 - 1e-9))
+    liquid_mid = has_fuel[None, :] & ((np.asarray(record["mid_xv"]) < volatile * (1.0 - WET_SHARE))
+                                      | wet_oil[None, :])
+    fuel_wet = has_fuel & np.any(xv_nodes < volatile * (1.0 - WET_SHARE), axis=0)
     wet = np.concatenate([np.where(liquid_nodes, wall_nodes, -np.inf), np.where(liquid_mid, mid_wall, -np.inf)])
     max_wet = wet.max(axis=0)
     max_wet = np.where(np.isfinite(max_wet), max_wet, np.nan)
@@ -1421,8 +1476,8 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     if np.any(has_fuel):
         with warnings.catch_warnings():
             warnings.simplefilter("ignore", ValidityWarning)
-            grid = _droplet_grid(fuel)
-        K_nodes, _ = _droplet_constant(fuel, T_nodes, P_nodes, y_gas, t_bub[None, :], grid)
+            grid = _DropletGrid(fuel, t_bub)
+        K_nodes, _ = _droplet_constant(fuel, T_nodes, P_nodes, y_gas, grid)
         sigma = np.asarray(fuel.surface_tension(np.clip(Tfuel, fuel.t_min, fuel.t_max)), dtype=float)
         d_we = heat.WEBER_CRITICAL * sigma / (rho_gas_in * np.maximum(u_nodes[0], 1e-9) ** 2)
     else:
@@ -1514,7 +1569,7 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     dew_margin = T_exit - dew
     verdict = _verdicts(N, has_fuel, vap_share, dew_margin, survive, life, t_res, coking, max_wet,
                         coking_limit, flashback, margin, flammable, X_nodes[-1], oil_residue, T_exit,
-                        Ta, wall_nodes, D0)
+                        Ta, wall_nodes, D0, fuel_wet)
 
     def out(a):
         a = np.asarray(a)
@@ -1564,24 +1619,8 @@ def _liquid_enthalpy(fuel, T):
     return 0.5 * (b - a) * np.tensordot(wg, cp, axes=(0, 0))
 
 
-def _droplet_grid(fuel):
-    """1-D property tables for the droplet model (fixed nodes: a point's answer is the same in any batch).
-
-    Liquid side from the fuel's lowest temperature (or 200 K) to its highest,
-    vapour heat capacity from 200 K to 2000 K.
-    """
-    a = max(float(fuel.t_min), 200.0)
-    tg = np.linspace(a, float(fuel.t_max), 400)
-    lnp = np.log(np.maximum(np.asarray(fuel.vapour_pressure(tg), dtype=float), 1e-300))
-    L = np.asarray(fuel.latent_heat(tg), dtype=float)
-    rho = np.asarray(fuel.density(tg), dtype=float)
-    tv = np.linspace(200.0, 2000.0, 361)
-    cpv = np.asarray(fuel.vapour_specific_heat(tv), dtype=float)
-    return tg, lnp, L, rho, cpv, tv
-
-
 def _verdicts(N, has_fuel, vap, dew_margin, survive, life, t_res, coking, max_wet, coking_limit,
-              flashback, margin, flammable, X_exit, oil, T_exit, T_air, wall_nodes, D0):
+              flashback, margin, flammable, X_exit, oil, T_exit, T_air, wall_nodes, D0, fuel_wet):
     """One verdict text per point: level, then the reasons."""
     texts = []
     for i in range(N):
@@ -1595,6 +1634,9 @@ def _verdicts(N, has_fuel, vap, dew_margin, survive, life, t_res, coking, max_we
             level = max(level, 1)
         if vap[i] >= 1.0 - 1e-9:
             reasons.append(f"fully vaporised at the exit (equilibrium), {dew_margin[i]:.0f} K above the dew point")
+        elif dew_margin[i] > 0:
+            reasons.append(f"fuel vaporised at the exit (equilibrium) but {(1.0 - vap[i]) * 100:.2g} % held in the "
+                           f"oil, {dew_margin[i]:.0f} K above the dew point")
         else:
             reasons.append(f"only {vap[i] * 100:.0f} % vaporised at the exit (equilibrium); "
                            f"exit {-dew_margin[i]:.0f} K below the dew point")
@@ -1608,7 +1650,8 @@ def _verdicts(N, has_fuel, vap, dew_margin, survive, life, t_res, coking, max_we
             reasons.append(f"{D0[i] * 1e6:.0f} µm droplets evaporate in {life[i] * 1e3:.1f} ms "
                            f"(residence {t_res[i] * 1e3:.1f} ms)")
         if coking[i]:
-            reasons.append(f"coking risk: fuel-wetted wall reaches {max_wet[i] - T0_C:.0f} °C "
+            liquid = ("fuel and oil" if fuel_wet[i] else "oil") if oil[i] > 0 else "liquid fuel"
+            reasons.append(f"coking risk: wall wetted by {liquid} reaches {max_wet[i] - T0_C:.0f} °C "
                            f"(> {coking_limit - T0_C:.0f} °C)")
             level = max(level, 1)
         if flashback[i]:

@@ -1,0 +1,117 @@
+"""The vaporiser's spreadsheet functions, called exactly as cells would call them.
+
+Builders' units at this face (mm, g/s, g/min, bar abs, °C, ms); the values are checked against the
+core API in SI and against closed forms.  The tube and operating point are our own invention.
+"""
+
+import math
+import warnings
+
+import pytest
+
+from fuelsys import thermo
+from fuelsys import vaporiser as vap
+from fuelsys.errors import ValidityWarning
+from fuelsys.fuels import get_fuel
+from fuelsys.sheet import adapt, call, is_error
+
+ARGS = (6, 150, 30, 4, 3, 200, 600, "kerosene")  # bore mm, heated mm, fuel g/min, air g/s, bar abs, t3 °C, wall °C
+
+
+@pytest.fixture(autouse=True)
+def strict(monkeypatch):
+    monkeypatch.setattr(adapt, "STRICT", True)
+
+
+def _core(oil_pct=0.0):
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", ValidityWarning)
+        return vap.vaporiser(6e-3, 0.15, 30e-3 / 60, 4e-3, 3e5, 473.15, 873.15,
+                             get_fuel("kerosene").with_oil(oil_pct))
+
+
+def test_tube_air_in_builders_units():
+    # incompressible check of the same orifice: Cd A (2 rho dp)^0.5 (Lefebvre & Ballal 3rd ed. ch. 4) with the
+    # compressible expansion factor below 1 for a 3 % drop
+    g_s = call("FS_TUBE_AIR", 6, 3, 3, 200)
+    rho = 3e5 / (thermo.R_AIR * 473.15)
+    inc = 0.6 * 0.25 * math.pi * 0.006 ** 2 * math.sqrt(2 * rho * 0.03 * 3e5) * 1e3
+    assert 0.98 * inc < g_s < inc
+    assert call("FS_TUBE_AIR", 6, 3, 3, 200, 0.8) == pytest.approx(g_s * 0.8 / 0.6, rel=1e-12)
+    grid = call("FS_TUBE_AIR", [[5], [6]], 3, 3, [[150, 200]])
+    assert len(grid) == 2 and len(grid[0]) == 2 and grid[1][1] == pytest.approx(g_s, rel=1e-12)
+    # a liner drop of a few per cent of the case pressure (common practice, no source) gives grams per second
+    assert 1.0 < g_s < 10.0
+
+
+def test_vaporiser_table_and_items_match_the_core():
+    table = call("FS_VAPORISER", *ARGS)
+    labels = [row[0] for row in table]
+    for need in ("vaporised_pct", "exit_c", "dew_point_c", "dew_margin_k", "residence_ms", "droplet_life_ms",
+                 "tube_phi", "exit_velocity_m_s", "flame_speed_m_s", "max_wet_wall_c", "oil_residue_g_h",
+                 "dp_mbar", "verdict"):
+        assert need in labels
+    values = dict((row[0], row[1]) for row in table)
+    r = _core()
+    assert values["exit_c"] == pytest.approx(r.exit_temperature - 273.15, rel=1e-12)
+    assert values["vaporised_pct"] == pytest.approx(r.vapour_fraction * 100, rel=1e-12)
+    assert values["residence_ms"] == pytest.approx(r.residence_time * 1e3, rel=1e-12)
+    assert values["dp_mbar"] == pytest.approx(r.pressure_drop / 100, rel=1e-12)
+    assert values["dew_margin_k"] == pytest.approx(values["exit_c"] - values["dew_point_c"], abs=1e-9)
+    assert values["verdict"] == r.verdict
+    # one item: the same value alone
+    assert call("FS_VAPORISER", *ARGS, None, "exit_c") == pytest.approx(values["exit_c"], rel=1e-12)
+    assert call("FS_VAPORISER", *ARGS, 0, "VERDICT") == values["verdict"]
+    # no liquid on the wall at this point: a text, not a number
+    assert isinstance(values["max_wet_wall_c"], (str, float))
+
+
+def test_oil_residue_in_grams_per_hour():
+    r = _core(3.0)
+    g_h = call("FS_VAPORISER", *ARGS, 3, "oil_residue_g_h")
+    blend = get_fuel("kerosene").with_oil(3.0)
+    # all the oil leaves as liquid: fuel flow x oil mass share, g/min -> g/h (x 60)
+    assert g_h == pytest.approx(30 * blend.oil_mass_share * 60, rel=1e-12)
+    assert g_h == pytest.approx(r.oil_residue * 3.6e6, rel=1e-12)
+
+
+def test_profile_table_for_a_chart():
+    rows = call("FS_VAPORISER_PROFILE", *ARGS, 0, 6)
+    assert rows[0] == ["position_mm", "gas_c", "wall_c", "vaporised_pct", "velocity_m_s"]
+    assert len(rows) == 7
+    assert rows[1][0] == 0.0 and rows[-1][0] == pytest.approx(150.0)
+    gas = [r[1] for r in rows[1:]]
+    assert all(b > a for a, b in zip(gas, gas[1:]))  # heated all along
+    assert all(r[2] == pytest.approx(600.0) for r in rows[1:])  # the uniform wall
+    exit_c = call("FS_VAPORISER", *ARGS, 0, "exit_c")
+    assert rows[-1][1] == pytest.approx(exit_c, rel=1e-9)
+
+
+def test_residence_time_in_ms():
+    # plug flow at constant temperature without fuel: t = A L rho / m (ideal gas, fuelsys.thermo R_AIR)
+    ms = call("FS_RESIDENCE_TIME", 6, 150, 4, 0, 3, 200)
+    rho = 3e5 / (thermo.R_AIR * 473.15)
+    assert ms == pytest.approx(0.25 * math.pi * 0.006 ** 2 * 0.15 * rho / 4e-3 * 1e3, rel=1e-12)
+    hotter = call("FS_RESIDENCE_TIME", 6, 150, 4, 30, 3, 200, 300)
+    assert hotter < ms
+    faster = call("FS_RESIDENCE_TIME", 6, 150, [[2, 4, 8]], 0, 3, 200)
+    assert faster[0][0] > faster[0][1] > faster[0][2]
+
+
+@pytest.mark.parametrize("args,text", [
+    ((6, 0, 30, 4, 3, 200, 600, "kerosene"), "heated_length_mm must be > 0"),
+    ((6, 150, 30, 0, 3, 200, 600, "kerosene"), "air_g_s must be > 0"),
+    ((6, 150, 30, 4, 0.9, 200, 600, "kerosene"), "case pressure 0.9 bar abs is below ambient"),
+    ((6, 150, 30, 4, 3, 200, 600, "air"), "air is not a fuel"),
+    ((6, 150, 30, 4, 3, 200, 600, "kerosene", 0, "colour"), "item must be one of"),
+    ((6, 150, None, 4, 3, 200, 600, "kerosene"), "fuel_g_min is empty"),
+])
+def test_bad_input_gives_error_text(args, text):
+    out = call("FS_VAPORISER", *args)
+    assert is_error(out) and text in out, out
+
+
+def test_cold_wall_is_a_verdict_not_an_error():
+    out = call("FS_VAPORISER", 6, 150, 180, 2, 2, 150, 80, "kerosene", 0, "verdict")
+    assert not is_error(out)
+    assert out.startswith("poor") and "no hotter than the inlet air" in out
