@@ -1408,10 +1408,17 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     flags = _flags_for(N)
     if np.any(has_fuel):
         far_s = np.where(has_fuel, far, 1e-6)
-        xv_exit = np.asarray(fuel.vapour_fraction(T_exit, P_exit, far_s), dtype=float)
-        h_f_exit = np.asarray(fuel.enthalpy(T_exit, P_exit, far_s), dtype=float)
-        dew = np.asarray(fuel.dew_point(P_exit, far_s), dtype=float) * np.ones(N)
-        t_bub = np.asarray(fuel.bubble_point(P0), dtype=float) * np.ones(N)
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always", ValidityWarning)
+            xv_exit = np.asarray(fuel.vapour_fraction(T_exit, P_exit, far_s), dtype=float)
+            h_f_exit = np.asarray(fuel.enthalpy(T_exit, P_exit, far_s), dtype=float)
+            dew = np.where(has_fuel, np.asarray(fuel.dew_point(P_exit, far_s), dtype=float), np.nan)
+            t_bub = np.asarray(fuel.bubble_point(P0), dtype=float) * np.ones(N)
+        for w in caught:
+            if issubclass(w.category, ValidityWarning):
+                _flag(flags, has_fuel, f"fuel model at the exit state: {str(w.message).split(';')[0]}")
+            else:
+                warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
     else:
         xv_exit = np.ones(N)
         h_f_exit = np.zeros(N)
@@ -1549,8 +1556,9 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
         ratio_tw = T_nodes / np.maximum(wall_nodes, 1.0)
         _flag(flags, np.any(turb & (ratio_tw < 0.5), axis=0),
               "wall more than twice the gas temperature (property-ratio correction)")
-    _flag(flags, np.any((T_nodes > 1000.0) | (wall_nodes > 1000.0) & (inner is None), axis=0),
-          "gas or wall above 1000 K (Sutherland air properties)")
+    if inner is None:
+        _flag(flags, np.any(T_nodes > heat.VALIDITY["sutherland_viscosity_air"]["T"][1], axis=0),
+              "gas above 1000 K (Sutherland air properties)")
     vlo, vhi, _ = VALIDITY[f"{'gulder_1984' if flame_speed_method == 'gulder' else 'metghalchi_keck_1982'}"]["phi"]
     _flag(flags, np.any(flam_nodes & ((vap_phi_nodes < vlo) | (vap_phi_nodes > vhi)), axis=0),
           f"flame speed extrapolated outside phi {vlo:g}..{vhi:g}")
@@ -1560,7 +1568,8 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     if _family(fuel) == "kerosene" and np.any(has_fuel) and not str(getattr(fuel, "name", "")).lower().startswith("kerosene"):
         _flag(flags, has_fuel, "flame speed and flammability from kerosene-type data")
     if np.any(has_fuel) and np.any(T_exit > float(fuel.t_max)):
-        _flag(flags, T_exit > float(fuel.t_max), "exit above the fuel model's liquid range")
+        _flag(flags, has_fuel & (T_exit > float(fuel.t_max)),
+              f"exit above the liquid-property range of {fuel.name} ({float(fuel.t_max) - T0_C:.0f} °C)")
     validity = ["; ".join(f) for f in flags]
     for text in sorted({t for f in flags for t in f}):
         warnings.warn(f"vaporiser: {text}", ValidityWarning, stacklevel=2)
