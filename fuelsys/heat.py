@@ -191,7 +191,7 @@ def gnielinski_1976(Re, Pr, fd=None):
     Pr : array_like
         Prandtl number [-]
     fd : array_like, optional
-        Darcy friction factor [-]; default :func:`filonenko_1954` (smooth tube)
+        Darcy friction factor; default :func:`filonenko_1954` (smooth tube) [-]
 
     Returns
     -------

@@ -312,7 +312,7 @@ def residence_time_estimate(bore, heated_length, air_flow, fuel_flow, pressure, 
     t_in : array_like
         Gas temperature at the inlet [K]
     t_exit : array_like, optional
-        Gas temperature at the exit [K]; default ``t_in``
+        Gas temperature at the exit; default ``t_in`` [K]
     fuel_molar_mass : float, optional
         Molar mass of the fuel vapour [kg/mol]; default the built-in
         kerosene's [kg/mol]
@@ -1196,24 +1196,24 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     fuel_flow : array_like
         Liquid fuel flow into the tube (oil included), >= 0 [kg/s]
     air_flow : array_like
-        Air flow into the tube, > 0 [kg/s]; see :func:`tube_air_flow`
+        Air flow into the tube, > 0 (see :func:`tube_air_flow`) [kg/s]
     pressure : array_like
         Case pressure at the tube inlet [Pa abs]
     t_air_in : array_like
         Air temperature at the tube inlet (compressor exit) [K]
     wall : array_like, WallProfile or FlameSide
-        Inner-wall temperature [K] (uniform, broadcast with the points), a
-        :class:`WallProfile`, or :class:`FlameSide` conditions to solve it
+        Inner-wall temperature (uniform, broadcast with the points), a
+        :class:`WallProfile`, or :class:`FlameSide` conditions to solve it [K]
     fuel : Fuel
         The fuel (a blend with turbine oil from ``fuel.with_oil(pct)``:
         the oil stays liquid) [-]
     t_fuel_in : array_like
-        Liquid fuel temperature at the needle exit [K]; default 25 °C
+        Liquid fuel temperature at the needle exit; default 25 °C [K]
     droplet_diameter : array_like, optional
-        Initial droplet diameter [m]; default: the largest drop the tube's
-        inlet air leaves unbroken (critical Weber number 12, Hinze 1955),
-        capped by Rayleigh break-up of the needle's jet (1.89 x needle bore)
-        when ``needle_bore`` is given, and by the tube bore -- an assumption
+        Initial droplet diameter; default: the largest drop the tube's inlet
+        air leaves unbroken (critical Weber number 12, Hinze 1955), capped by
+        Rayleigh break-up of the needle's jet (1.89 x needle bore) when
+        ``needle_bore`` is given, and by the tube bore -- an assumption [m]
     needle_bore : array_like, optional
         Needle inside diameter, for the default droplet size [m]
     needle_od : array_like, optional

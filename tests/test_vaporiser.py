@@ -422,3 +422,49 @@ def test_tube_air_flow_bad_input():
         vap.tube_air_flow(BORE, 0.0, P3, T3)
     with pytest.raises(FuelsysInputError, match="air-flow method"):
         vap.tube_air_flow(BORE, 0.03, P3, T3, method="guess")
+
+
+def test_docstrings_name_units_and_sources():
+    """Every public function of fuelsys.vaporiser and fuelsys.heat has References and a unit on each parameter
+    (STYLE.md "Do" 1)."""
+    import inspect
+    import re
+
+    for mod in (vap, heat):
+        for name, fn in inspect.getmembers(mod, inspect.isfunction):
+            if name.startswith("_") or fn.__module__ != mod.__name__:
+                continue
+            doc = inspect.getdoc(fn) or ""
+            assert "References" in doc and "Examples" in doc, f"{mod.__name__}.{name}"
+            params = list(inspect.signature(fn).parameters)
+            if not params:
+                continue
+            section = doc.split("Parameters\n----------\n", 1)
+            assert len(section) == 2, f"{mod.__name__}.{name}: no Parameters section"
+            body = re.split(r"\n(?:Returns|Raises|Notes|References|Examples)\n-+\n", section[1])[0]
+            entries = re.split(r"\n(?=\w+ : )", body.strip())
+            assert len(entries) == len(params), f"{mod.__name__}.{name}: {len(entries)} entries for {params}"
+            for entry in entries:
+                assert re.search(r"\[[^\]]+\]\s*$", entry.strip()), f"{mod.__name__}.{name}: no unit in {entry!r}"
+
+
+def test_wall_descriptions_refuse_bad_input():
+    with pytest.raises(FuelsysInputError, match="one temperature per position"):
+        vap.WallProfile([0.0, 0.1], [500.0, 600.0, 700.0])
+    with pytest.raises(FuelsysInputError, match="increasing"):
+        vap.WallProfile([0.1, 0.0], [500.0, 600.0])
+    with pytest.raises(FuelsysInputError, match="emissivity must be within 0..1"):
+        vap.FlameSide(1600.0, 100.0, 1.2)
+    with pytest.raises(FuelsysInputError, match="no heat reaches the tube"):
+        vap.FlameSide(1600.0, 0.0, 0.0)
+
+
+def test_validity_flags_and_warnings(kero):
+    # a rich tube: the flame-speed correlation is used outside its fitted equivalence ratios -> flagged
+    with pytest.warns(ValidityWarning, match="flame speed extrapolated"):
+        warnings.simplefilter("always", ValidityWarning)
+        r = vap.vaporiser(BORE, LENGTH, 0.5e-3, 3e-3, 3e5, 470.0, 800.0, kero)
+    assert "flame speed extrapolated" in r.validity
+    # too few steps for a long, hot, slow tube: the step-doubling estimate says so
+    r = vap.vaporiser(BORE, 1.0, 0.05e-3, 0.2e-3, 1.5e5, 400.0, 900.0, kero, n_steps=4)
+    assert r.step_error_temperature > vap.STEP_TOLERANCE_K and "march not converged" in r.validity
