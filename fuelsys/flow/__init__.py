@@ -18,9 +18,16 @@ Each has convenience wrappers taking a :class:`fuelsys.fuels.base.Fuel` and a
 temperature.  This package never imports :mod:`fuelsys.sheet`.
 """
 
+from fuelsys.flow.bench import bench_mass_flow, effective_bore, effective_bore_from_test, odd_needles
+from fuelsys.flow.lines import line_dp, line_dp_fuel
+from fuelsys.flow.manifold import ManifoldResult, ring_manifold, ring_manifold_fuel
 from fuelsys.flow.needle import (P_MAX, needle_dp, needle_dp_fuel, needle_flow, needle_flow_fuel,
                                  needle_losses, needle_reynolds, needle_velocity)
+from fuelsys.flow.tolerance import tolerance_study, tolerance_study_fuel
 from fuelsys.flow.tubing import needle_bore, needle_od, od_range, resolve_bore
 
 __all__ = ["P_MAX", "needle_dp", "needle_dp_fuel", "needle_flow", "needle_flow_fuel", "needle_losses",
-           "needle_reynolds", "needle_velocity", "needle_bore", "needle_od", "od_range", "resolve_bore"]
+           "needle_reynolds", "needle_velocity", "needle_bore", "needle_od", "od_range", "resolve_bore",
+           "line_dp", "line_dp_fuel", "ManifoldResult", "ring_manifold", "ring_manifold_fuel",
+           "tolerance_study", "tolerance_study_fuel", "bench_mass_flow", "effective_bore",
+           "effective_bore_from_test", "odd_needles"]

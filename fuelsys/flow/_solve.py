@@ -55,18 +55,24 @@ def expand_bracket(fun, lo, hi, f_lo=None, f_hi=None, grow: float = 2.0, maxiter
     raise FuelsysError("could not bracket the solution (no sign change found)")
 
 
-def newton_bracketed(fun, lo, hi, x0, f0, d0, tol: float = 1e-9, maxiter: int = 100):
+def newton_bracketed(fun, lo, hi, x0, first, params=(), tol: float = 1e-9, maxiter: int = 100):
     """Solve ``fun(x) = 0`` for an increasing ``fun`` inside ``[lo, hi]`` by safeguarded Newton.
 
     Parameters
     ----------
     fun : callable
-        ``fun(x, idx) -> (F, dF/dx)`` for the points ``idx`` (an index array
-        into the full problem) at the 1-D array ``x``.
+        ``fun(x, *params) -> (F, dF/dx, *aux)`` on 1-D arrays; ``params`` are
+        per-point parameter arrays (the solver hands over the ones of the
+        points still moving) and ``aux`` any further arrays the caller wants
+        back from each point's last evaluation.
     lo, hi : ndarray
         Bracket, ``F(lo) <= 0 <= F(hi)`` for every point.
-    x0, f0, d0 : ndarray
-        Start point inside the bracket with its function value and derivative.
+    x0 : ndarray
+        Start point inside the bracket.
+    first : tuple
+        ``fun(x0, *params)``, already computed by the caller.
+    params : tuple of ndarray
+        Per-point parameters passed on to ``fun``.
     tol : float
         A point is finished when its Newton step is below ``tol`` (absolute in
         x); that last step is applied without a further evaluation, so the
@@ -79,38 +85,54 @@ def newton_bracketed(fun, lo, hi, x0, f0, d0, tol: float = 1e-9, maxiter: int = 
     -------
     x : ndarray
         The roots.
+    F : ndarray
+        The residual at each point's last evaluation (about ``tol`` times the
+        slope for a point finished by a Newton step).
+    aux : tuple of ndarray
+        The ``aux`` arrays of each point's last evaluation.
 
     Notes
     -----
-    Finished points leave the working set, so late iterations cost only as
-    much as the points still moving.  A Newton step that would leave the
-    bracket is replaced by bisection, which makes the method converge for any
-    increasing function.
+    Finished points are written out as they finish; the working set is
+    compacted once a fifth of it has finished, so late iterations cost only
+    as much as the points still moving.  A Newton step that would leave the
+    bracket is replaced by bisection, which makes the method converge for
+    any increasing function.
     """
     x = np.array(x0, dtype=float)
     act = np.arange(x.size)
     xa = x.copy()
     la = np.array(lo, dtype=float)
     ha = np.array(hi, dtype=float)
-    F = np.asarray(f0, dtype=float)
-    D = np.asarray(d0, dtype=float)
+    params = tuple(params)
+    F, D, *aux = first
+    F_out = np.empty_like(x)
+    aux_out = [np.empty_like(x) for _ in aux]
     for _ in range(maxiter):
         with np.errstate(divide="ignore", invalid="ignore"):
             step = F / D
         xn = xa - step
         newton = (xn >= la) & (xn <= ha)
-        xn = np.where(newton, xn, 0.5 * (la + ha))
+        if not newton.all():
+            xn = np.where(newton, xn, 0.5 * (la + ha))
         done = (newton & (np.abs(step) <= tol)) | (F == 0) | (ha - la <= tol)
-        if done.any():
-            x[act[done]] = np.where(F[done] == 0, xa[done], xn[done])
-            keep = ~done
-            if not keep.any():
-                return x
-            act, xn, la, ha = act[keep], xn[keep], la[keep], ha[keep]
-        F, D = fun(xn, act)
+        n_done = np.count_nonzero(done)
+        if n_done:
+            k = act[done]
+            x[k] = np.where(F[done] == 0, xa[done], xn[done])
+            F_out[k] = F[done]
+            for a_out, a in zip(aux_out, aux):
+                a_out[k] = a[done]
+            if n_done == act.size:
+                return x, F_out, tuple(aux_out)
+            if n_done >= 0.2 * act.size:
+                keep = ~done
+                act, xn, la, ha = act[keep], xn[keep], la[keep], ha[keep]
+                params = tuple(p[keep] for p in params)
+        F, D, *aux = fun(xn, *params)
         pos = F > 0
-        ha = np.where(pos, xn, ha)
-        la = np.where(pos, la, xn)
+        np.copyto(ha, xn, where=pos)
+        np.copyto(la, xn, where=~pos)
         xa = xn
     raise FuelsysError("safeguarded Newton did not converge (this is a bug: the bracket should close)")
 

@@ -27,8 +27,9 @@ model's flow at the same dp.
 
 ``dp`` grows strictly with the flow (``f Re^2`` grows with Re in every
 regime), so :func:`needle_flow` inverts :func:`needle_dp` by a bracketed
-Newton iteration in ``ln Re`` that always converges (relative tolerance
-1e-12 on the flow).  The bracket comes in closed form: the laminar
+Newton iteration in ``ln Re`` that always converges (a point stops when its
+Newton step falls below 1e-7 in ``ln Re``; the step is applied, which leaves
+a relative error of order 1e-13 on the flow).  The bracket comes in closed form: the laminar
 fully-developed bound ``K >= K_ent + 1 + 64 (L/D)/Re`` gives an upper Re, and
 ``d ln K/d ln Re >= -1`` a lower one.
 
@@ -123,35 +124,33 @@ def _k_total(Re, lam, K0, eD, turb, lnRe=None):
 def _solve_reynolds(Be, lam, K0, eD, turb):
     """Re with Re^2 K(Re)/2 = Be (1-D arrays), by bracketed Newton in s = ln Re.
 
+    Returns Re and, from the last evaluation, K and f.
+
     The residual ``F(s) = ln(Re^2 K/2) - ln Be`` has ``F' = 2 + d ln K/d ln Re
     >= 1``.  The laminar bound ``K >= K0 + 64 (L/D)/Re`` gives ``s_hi`` (F >= 0)
-    in closed form and ``F' >= 1`` gives ``s_lo = s_hi - F(s_hi)``.  The
-    result is checked at the end; any point whose residual is not small
-    (which would mean the slope bound failed) is solved again inside a
-    bracket found by search.
+    in closed form and ``F' >= 1`` gives ``s_lo = s_hi - F(s_hi)``.  Any point
+    whose final residual is not small (which would mean the slope bound
+    failed) is solved again inside a bracket found by search.
     """
     lnBe = np.log(Be)
 
-    def fun(s, idx=None, full=False):
-        la, k0, ed, lb = (lam, K0, eD, lnBe) if idx is None else (lam[idx], K0[idx], eD[idx], lnBe[idx])
+    def fun(s, la, k0, ed, lb):
         K, slope, f = _k_total(np.exp(s), la, k0, ed, turb, s)
-        F = np.log(0.5 * K) + 2.0 * s - lb
-        return (F, K, f) if full else (F, 2.0 + slope)
+        return np.log(0.5 * K) + 2.0 * s - lb, 2.0 + slope, K, f
 
+    params = (lam, K0, eD, lnBe)
     b = 32.0 * lam
     s_hi = np.log(2.0 * Be / (b + np.sqrt(b * b + 2.0 * K0 * Be)))
-    F_hi, d_hi = fun(s_hi)
-    s_lo = s_hi - np.maximum(F_hi, 0.0) - 1e-6
-    s = newton_bracketed(fun, s_lo, s_hi + 1e-12, s_hi, F_hi, d_hi)
-    F, K, f = fun(s, full=True)
-    bad = np.flatnonzero(~(np.abs(F) <= 1e-9))
+    first = fun(s_hi, *params)
+    s_lo = s_hi - np.maximum(first[0], 0.0) - 1e-6
+    s, F, (K, f) = newton_bracketed(fun, s_lo, s_hi + 1e-12, s_hi, first, params, tol=1e-7)
+    bad = np.flatnonzero(~(np.abs(F) <= 1e-6))
     if bad.size:
-        sub = lambda x, i: fun(x, bad if i is None else bad[i])  # noqa: E731
-        lo, hi, f_lo, f_hi = expand_bracket(lambda x, i: sub(x, i)[0], s_lo[bad] - 1.0, s_hi[bad] + 1.0)
+        pb = tuple(p[bad] for p in params)
+        lo, hi, _, _ = expand_bracket(lambda x, i: fun(x, *(pb if i is None else (p[i] for p in pb)))[0],
+                                      s_lo[bad] - 1.0, s_hi[bad] + 1.0)
         x0 = 0.5 * (lo + hi)
-        f0, d0 = sub(x0, None)
-        s[bad] = newton_bracketed(lambda x, i: sub(x, i), lo, hi, x0, f0, d0)
-        _, K[bad], f[bad] = fun(s[bad], bad, full=True)
+        s[bad], _, (K[bad], f[bad]) = newton_bracketed(fun, lo, hi, x0, fun(x0, *pb), pb, tol=1e-7)
     return np.exp(s), K, f
 
 

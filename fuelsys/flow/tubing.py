@@ -144,6 +144,10 @@ def wall_class(wall: str) -> str:
     FuelsysInputError
         For an unknown name; the message lists the valid ones.
 
+    References
+    ----------
+    ISO 9626:2016 (wall classes normal, thin, extra-thin, ultra-thin).
+
     Examples
     --------
     >>> wall_class("TW")
