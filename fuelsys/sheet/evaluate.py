@@ -451,6 +451,96 @@ def parse(text: str):
     return node
 
 
+# Formulas filled down or across differ only in their relative references.  A
+# formula's *template* replaces each A1-style cell reference by its offset from
+# the formula's own cell (absolute parts kept as they are); formulas with the
+# same template share one parse, moved with :func:`shift`.  A template is only
+# used after checking that the references it encodes are exactly the cell
+# references the parser found (so a name, a function or a whole-column range
+# can never be mistaken for one).
+_TEMPLATE_RE = re.compile(
+    r'"(?:[^"]|"")*"|\'(?:[^\']|\'\')*\'|(?<![A-Za-z0-9_.\\$])(\$?)([A-Za-z]{1,3})(\$?)(\d{1,7})(?![A-Za-z0-9_(.!\[])')
+
+
+def _template(text: str, r: int, c: int):
+    """-> (key, [(row, col, row_abs, col_abs)...]) or None when the text has something odd."""
+    if "\x00" in text:
+        return None
+    refs = []
+
+    def sub(m):
+        if m.group(2) is None:
+            return m.group(0)
+        ca, cl, ra, rd = m.group(1), m.group(2), m.group(3), m.group(4)
+        row, col = int(rd), col_number(cl)
+        if not (1 <= row <= MAX_ROW and 1 <= col <= MAX_COL):
+            raise ValueError
+        refs.append((row, col, bool(ra), bool(ca)))
+        rk = f"{row}" if ra else f"[{row - r}]"
+        ck = f"{col}" if ca else f"[{col - c}]"
+        return f"\x00R{rk}C{ck}\x00"
+
+    try:
+        key = _TEMPLATE_RE.sub(sub, text)
+    except ValueError:
+        return None
+    return key, refs
+
+
+def _cell_refs(node, rows, cols):
+    """Collect the (value, absolute) parts of every cell reference; False if the tree has
+    references a template cannot carry (whole columns or rows)."""
+    stack = [node]
+    while stack:
+        n = stack.pop()
+        kind = n[0]
+        if kind == "cell":
+            rows.append((n[2], n[4]))
+            cols.append((n[3], n[5]))
+        elif kind == "area":
+            if n[2] is None or n[3] is None:
+                return False
+            rows += [(n[2], n[6]), (n[4], n[8])]
+            cols += [(n[3], n[7]), (n[5], n[9])]
+        elif kind == "bin":
+            stack += [n[2], n[3]]
+        elif kind == "un":
+            stack.append(n[2])
+        elif kind == "call":
+            stack += n[2]
+    return True
+
+
+class _Templates:
+    """Parse cache keyed on the relative form of a formula at its cell."""
+
+    def __init__(self):
+        self.cache = {}
+
+    def tree(self, text: str, r: int, c: int):
+        if text.startswith("="):
+            text = text[1:]
+        tp = _template(text, r, c)
+        if tp is None:
+            return parse(text)
+        key, refs = tp
+        hit = self.cache.get(key)
+        if hit is not None:
+            tree, r0, c0 = hit
+            if tree is None:
+                return parse(text)
+            return shift(tree, r - r0, c - c0)
+        tree = parse(text)
+        rows, cols = [], []
+        ok = _cell_refs(tree, rows, cols)
+        if ok and sorted(rows) == sorted((a, ra) for a, _, ra, _ in refs) \
+                and sorted(cols) == sorted((b, ca) for _, b, _, ca in refs):
+            self.cache[key] = (tree, r, c)
+        else:
+            self.cache[key] = (None, r, c)
+        return tree
+
+
 def shift(node, dr: int, dc: int):
     """Move the relative parts of every reference by (dr, dc) rows and columns.
 
@@ -704,9 +794,13 @@ class _Compiler:
         from fuelsys.sheet.adapt import call_spec
 
         fs = [self.comp(a, True) for a in args]
+        memo = self.e.call_memo
+        name = spec.name
+        pure = not spec.volatile
 
         def catalogue_call():
             cells = []
+            scalar = pure
             for f in fs:
                 v = f()
                 t = type(v)
@@ -721,13 +815,23 @@ class _Compiler:
                         cells.append(rows[0][0] if rows else None)
                     else:
                         cells.append(rows)
+                        scalar = False
                 elif t is XlError:
                     return v
                 elif v is MISSING:
                     cells.append(None)
                 else:
                     cells.append(v)
-            out = call_spec(spec, *cells)
+            if scalar:
+                # the same function on the same single values gives the same result
+                key = (name, tuple((type(x), x) for x in cells))
+                out = memo.get(key)
+                if out is None:
+                    out = call_spec(spec, *cells)
+                    if len(memo) < 200_000:
+                        memo[key] = out
+            else:
+                out = call_spec(spec, *cells)
             if isinstance(out, list):
                 return Array([list(r) for r in out])
             return out
@@ -863,6 +967,7 @@ class Engine:
                 self.vals[(si, r, c)] = v
             self.extent.append((s.max_row, s.max_col))
         self.area_cache: dict = {}
+        self.call_memo: dict = {}
         self.catalogue = _catalogue()
         self._names = {}
         self._name_trees = {}
@@ -898,6 +1003,7 @@ class Engine:
     def _nodes(self):
         nodes: dict[tuple, _Node] = {}
         owner: dict[tuple, tuple] = {}
+        templates = _Templates()
         for si, s in enumerate(self.book.sheets):
             if s.kind != "worksheet":
                 continue
@@ -916,11 +1022,11 @@ class Engine:
                         m = masters.get(f.si)
                         if m is None:
                             raise Unsupported(f"shared formula {f.si} without its first cell")
-                        node.tree = shift(parse(m[2]), r - m[0], c - m[1])
+                        node.tree = shift(templates.tree(m[2], m[0], m[1]), r - m[0], c - m[1])
                     else:
                         if not f.text or not f.text.strip():
                             raise FormulaSyntaxError("empty formula")
-                        node.tree = parse(f.text)
+                        node.tree = templates.tree(f.text, r, c)
                 except Unsupported as exc:
                     node.reason = str(exc)
                 if f.kind == "array" and f.ref is not None:
