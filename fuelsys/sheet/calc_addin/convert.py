@@ -6,16 +6,18 @@ Calc hands an ``any`` argument to the component as:
   given as an argument arrives as 0.0, which is Calc's own rule for a
   reference to an empty cell passed by value),
 - ``str`` for a text,
-- a tuple of row tuples for a range (empty cells inside it arrive as ``None``
-  or ``""``),
+- a tuple of row tuples for a range (an empty cell inside it arrives as
+  ``""``, as does a formula's empty text; both become ``None``, an empty
+  cell, as the built-in engine reads them),
 - ``None`` for an omitted argument.
 
 :func:`call` turns these into the cell values of
 :func:`fuelsys.sheet.adapt.call_spec` (floats, texts, ``None`` for empty, 2-D
 lists for ranges), runs the function there, and turns the result back into
 rows of cells (the methods return ``sequence< sequence< any > >``; a single
-value is one row of one cell, which Calc shows as a plain value).  Calc has no boolean cell type, so a
-boolean result becomes 1.0 or 0.0, as Calc's own TRUE and FALSE are.
+value is one row of one cell, which Calc shows as a plain value).  Calc has
+no boolean cell type, so a boolean result becomes 1.0 or 0.0, as Calc's own
+TRUE and FALSE are.
 """
 
 from __future__ import annotations
@@ -41,7 +43,7 @@ def from_uno(value):
 
 
 def _from_uno_cell(value):
-    if value is None:
+    if value is None or value == "":  # Calc passes an empty cell inside a range as ""
         return None
     if isinstance(value, bool):
         return value
@@ -68,14 +70,19 @@ def to_uno(result):
     return ((_to_uno_cell(result),),)
 
 
-def call(name: str, args) -> object:
-    """Run the catalogue function ``name`` on the UNO arguments Calc passed."""
+def call_spec_uno(spec: catalogue.Spec, args) -> tuple:
+    """Run ``spec`` on the UNO arguments Calc passed; rows of cells back."""
+    cells = [from_uno(a) for a in args]
+    while cells and cells[-1] is None:  # Calc passes every argument; trailing omitted ones are absent
+        cells.pop()
+    return to_uno(adapt.call_spec(spec, *cells))
+
+
+def call(name: str, args) -> tuple:
+    """Run the catalogue function ``name`` on the UNO arguments Calc passed; rows of cells back."""
     try:
         spec = catalogue.get(name)
     except KeyError:
         return to_uno(adapt.error_text(f"{name} is in the installed extension but not in this fuelsys "
                                        "(rebuild and reinstall the extension: fuelsys libreoffice install)"))
-    cells = [from_uno(a) for a in args]
-    while cells and cells[-1] is None:  # Calc passes every argument; trailing omitted ones are absent
-        cells.pop()
-    return to_uno(adapt.call_spec(spec, *cells))
+    return call_spec_uno(spec, args)
