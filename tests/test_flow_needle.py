@@ -208,3 +208,23 @@ def test_fuel_wrapper_uses_the_fuel_properties(kerosene):
     assert nd.needle_dp_fuel(m, 0.3e-3, 25e-3, kerosene, T) == pytest.approx(1e5, rel=1e-9)
     with pytest.raises(FuelsysInputError, match="outside"):
         nd.needle_flow_fuel(1e5, 0.3e-3, 25e-3, kerosene, 100.0)
+
+
+@pytest.mark.parametrize("turbulent", list(fr.TURBULENT_METHODS))
+def test_round_trip_over_an_extreme_range(turbulent):
+    # robustness of the bracketed solve far outside the needle range: bores 20 um..20 mm, L/D 0.05..1e5,
+    # viscosities 1e-5..1 Pa s, rough walls up to e/D of tens (flagged, still finite), custom K
+    rng = np.random.default_rng(9)
+    n = 50000
+    D = np.exp(rng.uniform(np.log(2e-5), np.log(2e-2), n))
+    L = D * np.exp(rng.uniform(np.log(0.05), np.log(1e5), n))
+    dp = np.exp(rng.uniform(np.log(1.0), np.log(50e5), n))
+    rho = rng.uniform(500, 1500, n)
+    mu = np.exp(rng.uniform(np.log(1e-5), np.log(1.0), n))
+    K = rng.uniform(0, 3, n)
+    e = np.where(rng.random(n) < 0.5, 0.0, np.exp(rng.uniform(np.log(1e-8), np.log(1e-3), n)))
+    opts = dict(entrance=K, roughness=e, turbulent=turbulent, p_max=math.inf)
+    m = nd.needle_flow(dp, D, L, rho, mu, **opts)
+    assert np.all(np.isfinite(m)) and np.all(m > 0)
+    back = nd.needle_dp(m, D, L, rho, mu, **opts)
+    assert np.max(np.abs(back / dp - 1)) < 1e-9

@@ -266,16 +266,23 @@ def _churchill_lnA(lnRe, eD):
 
 
 def _colebrook_y(Re, eD):
-    """y = 1/sqrt(f) of Colebrook's equation by Newton's method (vectorised)."""
-    r = eD / 3.7
+    """y = 1/sqrt(f) of Colebrook's equation by Newton's method (vectorised).
+
+    ``e/D`` is held at 1 at most (the equation has no solution beyond 3.7;
+    the validity check flags anything above 0.05), and a Newton step that
+    would make ``y`` non-positive is replaced by halving ``y``.
+    """
+    r = np.minimum(eD, 1.0) / 3.7
     y = -2.0 * np.log10(r + 5.74 / Re ** 0.9)        # Swamee-Jain start
     y = np.maximum(y, 1.0)
-    for _ in range(60):
+    for _ in range(100):
         t = r + 2.51 * y / Re
         G = y + 2.0 * np.log10(t)
         dG = 1.0 + _C_LOG10 * (2.51 / Re) / t
-        step = G / dG
-        y = y - step
+        y_new = y - G / dG
+        y_new = np.where(y_new > 0, y_new, 0.5 * y)
+        step = y_new - y
+        y = y_new
         if np.all(np.abs(step) <= 1e-15 * np.abs(y)):
             break
     return y
@@ -289,7 +296,7 @@ def _colebrook_lnA(Re, eD):
     """
     Rc = np.maximum(Re, 2000.0)
     y = _colebrook_y(Rc, eD)
-    t = eD / 3.7 + 2.51 * y / Rc
+    t = np.minimum(eD, 1.0) / 3.7 + 2.51 * y / Rc
     w = (2.51 * y / Rc) / t
     k = _C_LOG10 * w / y
     s_c = np.where(Re > 2000.0, -2.0 * k / (1.0 + k), 0.0)   # d ln f_C / d ln Re

@@ -70,6 +70,7 @@ SHARE_TO_FLAG = 0.10
 
 _CHUNK = 16384
 _PI = math.pi
+_LN2 = math.log(2.0)
 
 
 def _out(a):
@@ -127,10 +128,14 @@ def _solve_reynolds(Be, lam, K0, eD, turb):
     Returns Re and, from the last evaluation, K and f.
 
     The residual ``F(s) = ln(Re^2 K/2) - ln Be`` has ``F' = 2 + d ln K/d ln Re
-    >= 1``.  The laminar bound ``K >= K0 + 64 (L/D)/Re`` gives ``s_hi`` (F >= 0)
-    in closed form and ``F' >= 1`` gives ``s_lo = s_hi - F(s_hi)``.  Any point
-    whose final residual is not small (which would mean the slope bound
-    failed) is solved again inside a bracket found by search.
+    >= 1``.  The laminar bound ``K >= K0 + 64 (L/D)/Re`` gives ``s_hi`` with
+    ``F(s_hi) >= 0`` in closed form.  The start ``s0`` is one fixed-point step
+    from there with the larger of the laminar (64/Re + 1.25 D/L) and Blasius
+    (0.3164 Re^-0.25) friction factors -- a start value only.  Then
+    ``F(s0) >= 0`` brackets the root in ``[s0 - F(s0), s0]`` (slope >= 1) and
+    ``F(s0) < 0`` in ``[s0, s_hi]``.  Any point whose final residual is not
+    small (which would mean the slope bound failed) is solved again inside a
+    bracket found by search.
     """
     lnBe = np.log(Be)
 
@@ -141,14 +146,19 @@ def _solve_reynolds(Be, lam, K0, eD, turb):
     params = (lam, K0, eD, lnBe)
     b = 32.0 * lam
     s_hi = np.log(2.0 * Be / (b + np.sqrt(b * b + 2.0 * K0 * Be)))
-    first = fun(s_hi, *params)
-    s_lo = s_hi - np.maximum(first[0], 0.0) - 1e-6
-    s, F, (K, f) = newton_bracketed(fun, s_lo, s_hi + 1e-12, s_hi, first, params, tol=1e-7)
+    f_start = np.maximum(64.0 * np.exp(-s_hi) + 1.25 / lam, 0.3164 * np.exp(-0.25 * s_hi))
+    s0 = np.minimum(0.5 * (lnBe + _LN2 - np.log(K0 + lam * f_start)), s_hi)
+    first = fun(s0, *params)
+    F0 = first[0]
+    above = F0 >= 0
+    lo = np.where(above, s0 - F0 - 1e-6, s0)
+    hi = np.where(above, s0, s_hi) + 1e-12
+    s, F, (K, f) = newton_bracketed(fun, lo, hi, s0, first, params, tol=1e-7)
     bad = np.flatnonzero(~(np.abs(F) <= 1e-6))
     if bad.size:
         pb = tuple(p[bad] for p in params)
         lo, hi, _, _ = expand_bracket(lambda x, i: fun(x, *(pb if i is None else (p[i] for p in pb)))[0],
-                                      s_lo[bad] - 1.0, s_hi[bad] + 1.0)
+                                      lo[bad] - 1.0, hi[bad] + 1.0)
         x0 = 0.5 * (lo + hi)
         s[bad], _, (K[bad], f[bad]) = newton_bracketed(fun, lo, hi, x0, fun(x0, *pb), pb, tol=1e-7)
     return np.exp(s), K, f
