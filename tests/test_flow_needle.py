@@ -67,6 +67,10 @@ def test_entrance_coefficients_against_crane_and_idelchik_in_fluids():
         assert fittings.entrance_rounded_crane(r) == pytest.approx(
             fluids_fittings.entrance_rounded(1.0, r, method="Crane"), abs=1e-12)
     assert fittings.EXIT_K == fluids_fittings.exit_normal()
+    # Idelchik diagram 3-1 via fluids: a protruding end with a wall 15 % of the bore (hypodermic tubing)
+    # loses as much as a flush square entrance
+    assert fittings.entrance_k("square") == pytest.approx(
+        fluids_fittings.entrance_distance(1.0, 0.15, l=1.0, method="Idelchik"), abs=1e-9)
     assert fittings.entrance_k(0.3) == 0.3
 
 

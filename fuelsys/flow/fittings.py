@@ -16,6 +16,14 @@ borda      1.00   thin-walled end protruding far into the ring, sharp edge
 rounded    0.04   well rounded, r/D >= 0.15 (Crane TP-410 2009, p. A-29)
 ========== ====== ===========================================================
 
+Wall thickness matters for a protruding end: Idelchik's diagram 3-1 falls
+from 1.0 for a knife edge to 0.5 once the wall is about 5 % of the bore
+thick (as tabulated by fluids.fittings.entrance_distance(method="Idelchik")),
+and hypodermic tubing walls are 15-40 % of the bore, so a
+needle pushed through the ring wall with a square-cut end is usually best
+described by "square" (0.5); "reentrant" and "borda" are for thin-walled
+tube ends.
+
 A number may be given instead of a key (any K >= 0), and
 :func:`entrance_rounded_crane` interpolates Crane's table for a given
 rounding radius.  The exit of a needle is a free jet: it leaves with its
