@@ -1321,7 +1321,8 @@ class Report:
         return not self.skipped
 
     def summary(self) -> str:
-        where = f"written to {self.output}" if self.written else "nothing written"
+        where = f"written to {self.output}" if self.written else \
+            "nothing written (fix the cells listed, or allow a partial result)"
         return (f"{os.path.basename(self.path)}: {self.computed} cells computed, "
                 f"{len(self.skipped)} skipped, {len(self.changed_parts)} sheet part(s) changed, "
                 f"{self.seconds:.2f} s; {where}")
