@@ -11,7 +11,8 @@ A job::
     {"soffice": "/usr/bin/soffice", "profile": "/tmp/x" or null, "timeout": 120,
      "pidfile": "/tmp/x.pid", "extensions": ["/path/fuelsys.oxt"],
      "books": [{"src": "in.xlsx", "dst": "out.xlsx", "read": true,
-                "timings": [{"name": "fs", "sheet": "bench", "range": "A1:A10000", "repeat": 3}]}]}
+                "timings": [{"name": "fs", "sheet": "bench", "range": "A1:A10000",
+                             "result": "B1:B10000", "repeat": 3}]}]}
 
 One session: start soffice with its own profile (a fresh temporary one unless
 ``profile`` names one) and a unique pipe, in its own process group; install
@@ -168,7 +169,9 @@ class Office:
     def run_book(self, book):
         out = {"src": book["src"]}
         url = uno.systemPathToFileUrl(os.path.abspath(book["src"]))
+        t0 = time.perf_counter()
         doc = self.desktop.loadComponentFromURL(url, "_blank", 0, (_prop("Hidden", True),))
+        out["load_s"] = time.perf_counter() - t0
         if doc is None:
             raise RuntimeError(f"LibreOffice could not open {book['src']}")
         try:
@@ -190,24 +193,37 @@ class Office:
 
     @staticmethod
     def _time(doc, spec):
-        """Recalculate only what depends on ``range`` (its numbers nudged), ``repeat`` times."""
+        """Recalculate what depends on ``range`` (its numbers nudged) ``repeat`` times; best times.
+
+        Automatic recalculation is off meanwhile, so only the cells that depend
+        on ``range`` are dirty when ``calculate()`` runs; when ``result`` names
+        a range, reading its values is part of the time (LibreOffice may
+        compute a dirty cell only when it is read) and its last values are
+        returned.
+        """
         sheet = doc.Sheets.getByName(spec["sheet"])
         rng = sheet.getCellRangeByName(spec["range"])
+        res = sheet.getCellRangeByName(spec["result"]) if spec.get("result") else None
         data = rng.getDataArray()
         doc.enableAutomaticCalculation(False)
-        times = []
+        times, values = [], None
         try:
             for k in range(int(spec.get("repeat", 3))):
                 f = 1.0 + 1e-9 * (k + 1)
                 rng.setDataArray(tuple(tuple(v * f if isinstance(v, float) else v for v in row) for row in data))
                 t0 = time.perf_counter()
                 doc.calculate()
+                if res is not None:
+                    values = res.getDataArray()
                 times.append(time.perf_counter() - t0)
             rng.setDataArray(data)
             doc.calculate()
         finally:
             doc.enableAutomaticCalculation(True)
-        return {"name": spec["name"], "seconds": times}
+        out = {"name": spec["name"], "seconds": times}
+        if values is not None:
+            out["values"] = [v for row in values for v in row]
+        return out
 
     def restart(self):
         """Stop and start again on the same profile (an extension's types load at start-up)."""
