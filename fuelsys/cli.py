@@ -82,7 +82,7 @@ def _version() -> str:
     return fuelsys.__version__
 
 
-def _cmd_demo(args) -> int:
+def _cmd_properties(args) -> int:
     import warnings
 
     from fuelsys.errors import ValidityWarning
@@ -97,6 +97,86 @@ def _cmd_demo(args) -> int:
             print(f"- {n}")
     print()
     print(CAUTIONS)
+    return 0
+
+
+def _fmt(v) -> str:
+    if isinstance(v, float):
+        return f"{v:.3g}" if abs(v) < 100 else f"{v:.1f}"
+    return str(v)
+
+
+def print_summary(rows, out=sys.stdout) -> None:
+    """The sizing summary: (label, value) rows read from a computed book."""
+    width = max(len(label) for label, _ in rows)
+    for label, value in rows:
+        text = _fmt(value)
+        if isinstance(value, str) and len(text) > 70:  # verdict texts: wrap under the label
+            import textwrap
+
+            out.write(f"  {label}:\n")
+            for line in textwrap.wrap(text, 90):
+                out.write(f"      {line}\n")
+        else:
+            out.write(f"  {label.ljust(width)}  {text}\n")
+
+
+def _cmd_demo(args) -> int:
+    import time
+
+    from fuelsys import demo
+    from fuelsys.sheet import book
+
+    t0 = time.perf_counter()
+    print(f"fuelsys demo: sizing the fuel system of the {demo.ENGINE_NAME}")
+    print("(a scenario of our own invention: the engine, its club and every figure in it are fictional)")
+    print("computing the demo book ...", flush=True)
+    path = book.write_demo(args.folder)
+    rows = book.read_summary(path)
+    print(f"wrote {path} ({time.perf_counter() - t0:.1f} s); its Summary sheet says:\n")
+    print_summary(rows)
+    print(f"\nOpen {path.name} in a spreadsheet program to see every formula, chart and verdict;"
+          " 'fuelsys new MYBOOK.xlsx' starts a book for your own engine.\n")
+    print(CAUTIONS)
+    return 0
+
+
+def _cmd_new(args) -> int:
+    from fuelsys.sheet import book
+
+    try:
+        path = book.new_book(args.book, force=args.force)
+    except (FileExistsError, ValueError) as exc:
+        print(f"fuelsys new: {exc}", file=sys.stderr)
+        return 2
+    print(f"wrote {path}: the starter book with example figures of a fictional engine; replace the shaded inputs")
+    return 0
+
+
+def _cmd_diff(args) -> int:
+    from fuelsys.sheet import book
+    from fuelsys.sheet.xlsx import WorkbookRefused
+
+    try:
+        diffs = book.diff_books(args.old, args.new, rel_tol=args.rel_tol)
+    except (WorkbookRefused, OSError, KeyError) as exc:
+        print(f"fuelsys diff: {exc}", file=sys.stderr)
+        return 2
+    if not diffs:
+        print("no differences in inputs, formulas or stored results")
+        return 0
+    counts = {}
+    for d in diffs:
+        counts[d.kind] = counts.get(d.kind, 0) + 1
+        print(d.line())
+    print("; ".join(f"{n} {k}{'s' if n != 1 else ''} differ" for k, n in counts.items()))
+    return 1
+
+
+def _cmd_excel_setup(args) -> int:
+    from fuelsys.sheet import book
+
+    print(book.excel_setup_text())
     return 0
 
 
@@ -119,8 +199,22 @@ def build_parser() -> argparse.ArgumentParser:
     )
     parser.add_argument("--version", action="version", version=f"fuelsys {_version()}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
-    p = sub.add_parser("demo", help="run the built-in demo (property tables of the built-in fuels)")
+    p = sub.add_parser("demo", help="size the fictional demo engine: write its computed book and print a summary")
+    p.add_argument("--folder", default=".", help="where to write fuelsys-demo.xlsx (default: here)")
     p.set_defaults(func=_cmd_demo)
+    p = sub.add_parser("properties", help="print property tables of the built-in kerosene and canister gases")
+    p.set_defaults(func=_cmd_properties)
+    p = sub.add_parser("new", help="start a book for your own engine from the starter workbook")
+    p.add_argument("book", help="the new book's file name (.xlsx)")
+    p.add_argument("--force", action="store_true", help="overwrite an existing file")
+    p.set_defaults(func=_cmd_new)
+    p = sub.add_parser("diff", help="list inputs and results that differ between two versions of a book")
+    p.add_argument("old", help="the original book")
+    p.add_argument("new", help="the edited copy")
+    p.add_argument("--rel-tol", type=float, default=1e-9, help="relative tolerance for numbers (default 1e-9)")
+    p.set_defaults(func=_cmd_diff)
+    p = sub.add_parser("excel-setup", help="print the steps to use the FS_ functions live in Excel (xlwings)")
+    p.set_defaults(func=_cmd_excel_setup)
     p = sub.add_parser("functions", help="list the spreadsheet functions, or describe one")
     p.add_argument("name", nargs="?", help="a function name such as FS_NEEDLE_FLOW")
     p.set_defaults(func=_cmd_functions)

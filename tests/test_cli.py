@@ -6,8 +6,8 @@ import sys
 from fuelsys.cli import main
 
 
-def test_demo_prints_kerosene_and_canister_tables_with_cautions(capsys):
-    assert main(["demo"]) == 0
+def test_properties_prints_kerosene_and_canister_tables_with_cautions(capsys):
+    assert main(["properties"]) == 0
     out = capsys.readouterr().out
     assert "Built-in fuel 'kerosene'" in out
     assert "Gas canister pressure" in out

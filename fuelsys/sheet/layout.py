@@ -42,6 +42,12 @@ class SheetWriter:
     label_width: int = 34
 
     def __post_init__(self):
+        # print each sheet landscape, one page wide
+        self.ws.page_setup.orientation = "landscape"
+        self.ws.page_setup.paperSize = self.ws.PAPERSIZE_A4
+        self.ws.sheet_properties.pageSetUpPr.fitToPage = True
+        self.ws.page_setup.fitToWidth = 1
+        self.ws.page_setup.fitToHeight = 0
         self.ws.column_dimensions["A"].width = self.label_width
         self.ws.column_dimensions["B"].width = 18
         self.ws.column_dimensions["C"].width = 14

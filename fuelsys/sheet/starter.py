@@ -39,11 +39,17 @@ SAFETY_LINES = (
 )
 
 
-def sheet_start(wb: Workbook) -> None:
+def sheet_start(wb: Workbook, bk) -> None:
     ws = wb.active
     ws.title = "Start here"
     w = SheetWriter(wb, ws, label_width=28)
-    w.heading("fuelsys fuel-system workbook")
+    if bk.title_note == "demo":
+        w.heading(f"fuelsys demo book: {bk.s.ENGINE_NAME}")
+        w.note(f"A scenario of our own invention: the engine and the {bk.s.CLUB_NAME} are fictional, and so is "
+               "every input figure. Use 'fuelsys new MYBOOK.xlsx' to start a book for your own engine.")
+    else:
+        w.heading("fuelsys fuel-system workbook")
+        w.note("The shaded inputs hold the example figures of a fictional demo engine: replace them with your own.")
     w.note("This book sizes the fuel system of a small gas turbine: fuel properties, injector needles and "
            "their ring manifold, the vaporiser tubes at idle and at full power, the pump pressure and voltage, "
            "and the gas start. Every result is a live formula; change the shaded inputs and the results follow.")
@@ -219,6 +225,9 @@ def sheet_needles(wb, bk):
     w.result("bore used", "=IF(ISNUMBER(MeasuredBoreMm),MeasuredBoreMm,FS_NEEDLE_BORE(NeedleGauge,NeedleWall))",
              "mm", name="NeedleBoreMm", number_format="0.000")
     w.result("outside diameter", "=FS_NEEDLE_OD(NeedleGauge)", "mm", name="NeedleOdMm", number_format="0.000")
+    w.result("chosen", '=NeedleCount&" needles of "&NeedleGauge&" G "&NeedleWall&" wall, bore "'
+                       '&ROUND(NeedleBoreMm,3)&" mm, "&NeedleLengthMm&" mm long"', "")
+    bk.cells["needles"] = f"Needles!$B${w.row - 1}"
     w.heading("Each needle at each operating point", sub=True)
     w.header_row(["point", "flow [g/min]", "Δp cold day [bar]", "Δp hot day [bar]", "Reynolds, cold",
                   "jet velocity, cold [m/s]", "supply [bar gauge]"])
@@ -234,6 +243,7 @@ def sheet_needles(wb, bk):
         w.cell(r, 7, f"=C{r}+{_eng(bk, 'F', i)}", number_format="0.000")
         w.row += 1
     bk.needle_rows = list(range(first, w.row))
+    bk.cells["flow per needle at full power [g/min]"] = f"Needles!$B${w.row - 1}"
     bk.cells["needle Δp at full power, cold day [bar]"] = f"Needles!$C${w.row - 1}"
     bk.cells["needle Δp at idle, hot day [bar]"] = f"Needles!$D${first}"
 
@@ -356,6 +366,8 @@ def sheet_vaporiser(wb, bk):
     bk.cells["vaporiser verdict at full power"] = f"Vaporiser!${verdict_col}${w.row - 1}"
     bk.cells["vaporised at idle [%]"] = f"Vaporiser!$D${first}"
     bk.cells["vaporised at full power [%]"] = f"Vaporiser!$D${w.row - 1}"
+    bk.cells["above the dew point at idle [K]"] = f"Vaporiser!$F${first}"
+    bk.cells["above the dew point at full power [K]"] = f"Vaporiser!$F${w.row - 1}"
 
     # profiles along the tube at idle and at full power
     profiles = []
@@ -517,7 +529,7 @@ def sheet_summary(wb, bk):
     ws.column_dimensions["B"].width = 60
     for label, ref in bk.cells.items():
         r = w.row
-        w.result(label, f"={ref}", "")
+        w.result(label, f"={ref}", "", number_format="0.00")
         ws[f"B{r}"].alignment = Alignment(wrap_text=True, vertical="top", horizontal="left")
         if "verdict" in label or "check" in label:
             bk.verdict_ranges.append(("Summary", f"B{r}"))
@@ -544,19 +556,23 @@ SECTIONS = (sheet_start, sheet_engine, sheet_fuel, sheet_needles, sheet_vaporise
             sheet_summary)
 
 
-def build(path: Path | str = STARTER_PATH, compute: bool = True, scenario=None) -> Path:
-    """Build the starter book at ``path`` (and compute its cached values)."""
+def build(path: Path | str = STARTER_PATH, compute: bool = True, scenario=None, title_note: str = "starter",
+          progress=None) -> Path:
+    """Build the starter book at ``path`` and compute its cached values.
+
+    ``scenario`` is a module or object with the attributes of
+    :mod:`fuelsys.demo` (the default); ``title_note`` "demo" titles the book as
+    the demo engine's.
+    """
     path = Path(path)
     from fuelsys import demo
 
     wb = Workbook()
     bk = _Book(scenario or demo)
     bk.verdict_ranges = []
+    bk.title_note = title_note
     for section in SECTIONS:
-        if section is sheet_start:
-            section(wb)
-        else:
-            section(wb, bk)
+        section(wb, bk)
     sheet_functions(wb)
     _verdict_formatting(wb, bk)
     stamp = datetime.datetime.combine(datetime.date.today(), datetime.time())
@@ -568,7 +584,15 @@ def build(path: Path | str = STARTER_PATH, compute: bool = True, scenario=None) 
     if compute:
         from fuelsys.sheet.evaluate import recalc_workbook
 
-        recalc_workbook(path)
+        report = recalc_workbook(path, progress=progress)
+        if getattr(report, "skipped", None):
+            raise RuntimeError(f"the starter book did not compute completely: {report.skipped}")
+        from fuelsys.sheet.xlsx import read_book
+
+        broken = {(sh.name, rc): v for sh in read_book(path).sheets for rc, v in sh.cells.items()
+                  if isinstance(v, str) and v.startswith("FS error: internal error")}
+        if broken:  # a bug, not a user's input: never ship a book that shows one
+            raise RuntimeError(f"the starter book shows internal errors: {sorted(broken.items())[:3]}")
     return path
 
 
