@@ -1,9 +1,11 @@
 """The extension in a real LibreOffice Calc, headless (skipped with the reason where LibreOffice is absent).
 
-One LibreOffice session serves the whole module (one module-scoped fixture):
-the extension is built from the catalogue and installed into a fresh profile,
-then a test book made here and the starter workbook are loaded, recalculated
-with calculateAll(), read back and stored as .xlsx.
+Under CI (the environment variable CI set) a missing LibreOffice is a
+failure, not a skip.  One LibreOffice session serves the whole module (one
+module-scoped fixture): the extension is built from the catalogue and
+installed into a fresh profile, then a test book made here and the starter
+workbook are loaded, recalculated with calculateAll(), read back and stored
+as .xlsx.
 
 Expected values are those of fuelsys itself: :func:`fuelsys.sheet.adapt.call`
 (the cell-level call every face shares) and the built-in headless engine
@@ -13,6 +15,7 @@ relative 1e-9, texts equal), so no outside source is involved.
 """
 
 import math
+import os
 import re
 from pathlib import Path
 
@@ -66,6 +69,8 @@ def _test_book(path: Path) -> Path:
 
 @pytest.fixture(scope="module")
 def calc(tmp_path_factory):
+    if REASON and os.environ.get("CI"):
+        pytest.fail(f"CI must run the LibreOffice tests (.ci/install-libreoffice installs it): {REASON}")
     if REASON:
         pytest.skip(f"LibreOffice not usable here: {REASON}")
     tmp = tmp_path_factory.mktemp("calc")
@@ -83,7 +88,7 @@ def calc(tmp_path_factory):
 
 
 def _value(cell):
-    """A LibreOffice cell as a built-in-engine value: float, str, or the error code text."""
+    """A LibreOffice cell's value: float, str, or the error code text."""
     return cell["value"]
 
 
@@ -195,3 +200,17 @@ def test_a_single_empty_cell_arrives_as_zero_in_libreoffice(calc):
 def test_the_component_logged_its_python(calc):
     text = calc["log"].read_text()
     assert "loaded into Python" in text and "cannot import" not in text
+
+
+def test_no_soffice_left_running_and_the_profile_is_gone(calc):
+    profile = calc["answer"]["installed"][0]["profile"]
+    left = []
+    for proc in Path("/proc").iterdir():
+        try:
+            cmdline = (proc / "cmdline").read_bytes().replace(b"\0", b" ").decode("utf-8", "replace")
+        except OSError:
+            continue
+        if profile in cmdline:
+            left.append(cmdline)
+    assert not left
+    assert not Path(profile).exists()
