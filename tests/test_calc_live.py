@@ -203,6 +203,8 @@ def test_the_component_logged_its_python(calc):
 
 
 def test_no_soffice_left_running_and_the_profile_is_gone(calc):
+    if not Path("/proc").is_dir():
+        pytest.skip("needs /proc to list processes")
     profile = calc["answer"]["installed"][0]["profile"]
     left = []
     for proc in Path("/proc").iterdir():
