@@ -45,10 +45,21 @@ same temperature).  Each step:
 After the march, the exit state is evaluated directly by the fuel model
 (vaporised fraction, dew point, enthalpy), so the exit is fully vaporised
 exactly when the exit temperature is above the dew point.  The heat taken
-from the wall (midpoint rule) is compared with the enthalpy rise from the fuel
-model (reported as ``energy_error``), and the march is repeated with half the
-steps for a step-doubling (Richardson) error estimate of the exit temperature
-and vaporised fraction.
+from the wall (each step's exponential profile integrated) is compared with
+the enthalpy rise from the fuel model at the exit temperature and pressure
+(``energy_error``): it checks the tables, the inversion and the pressure
+handling against the fuel model itself.  Where it is off by more than a
+quarter of :data:`ENERGY_TOLERANCE` because the tube's pressure drop moves
+the equilibrium, those points are marched again with flash tables at the
+inlet and the exit pressure, interpolated in pressure.  The march is also
+repeated with half the steps for a step-doubling (Richardson) error estimate
+of the exit temperature and vaporised fraction.
+
+The inlet state is the adiabatic mixture of the air and the liquid fuel
+(fuel that flashes at the inlet cools it, below both streams if need be).
+Points whose inlet would be near sonic (Mach above :data:`MACH_LIMIT`) or
+whose tube would lose more than half the case pressure are refused: the
+march is a low-speed one.
 
 Structure for tubes of more than one leg (a return bend): the march runs leg
 by leg on a carried state (:class:`_State`), each leg with its own length,
@@ -100,6 +111,8 @@ COKING_LIMIT = 260.0 + T0_C
 #: fuel-vapour heat capacities are taken at no more than this temperature (the vapour ranges of the fuel
 #: models end here; a mixture inside a vaporiser tube stays far below it) [K]
 T_VAPOUR_CP_MAX = 1500.0
+#: highest inlet Mach number the low-speed march accepts [-]; above 0.3 the result is flagged
+MACH_LIMIT = 0.7
 #: share of the fuel still liquid above which a wall counts as wetted by fuel [-]
 WET_SHARE = 1e-3
 #: tolerance on the step-doubling estimate of the exit temperature before the march is flagged [K]
@@ -159,8 +172,8 @@ def _out(x):
 
 
 def _family(fuel) -> str:
-    """Key of a fuel in the flame-speed and flammability tables (kerosene-type by default)."""
-    name = str(getattr(fuel, "name", "")).lower()
+    """Key of a fuel (object or name) in the flame-speed and flammability tables (kerosene-type by default)."""
+    name = (fuel if isinstance(fuel, str) else str(getattr(fuel, "name", ""))).lower()
     for key in ("isobutane", "butane", "propane", "lpg", "methane"):
         if name.startswith(key):
             return key
@@ -515,8 +528,7 @@ def laminar_flame_speed(phi, T, P, fuel="kerosene", method=FLAME_SPEED_DEFAULT):
     if method not in FLAME_SPEED_METHODS:
         raise FuelsysInputError(f"flame-speed method must be one of {', '.join(FLAME_SPEED_METHODS)} (got {method!r})")
     fn, _, table = FLAME_SPEED_METHODS[method]
-    family = _family(fuel) if not isinstance(fuel, str) else _family(type("F", (), {"name": fuel}))
-    key = FLAME_SPEED_SURROGATE.get(family, "isooctane")
+    key = FLAME_SPEED_SURROGATE.get(_family(fuel), "isooctane")
     if key not in table:
         key = "isooctane" if "isooctane" in table else next(iter(table))
     return fn(phi, T, P, key)
@@ -759,7 +771,7 @@ class _Tables:
 
     H, XV, CPA, CPV, MU, K, RHOL = range(7)
 
-    def __init__(self, fuel, t_lo, t_knee, t_hi, P, far, has_fuel, n_dense, n_upper_min):
+    def __init__(self, fuel, t_lo, t_knee, t_hi, P, far, has_fuel, n_dense, n_upper_min, P_second=None):
         N = t_lo.size
         self.N = N
         t_knee = np.clip(t_knee, t_lo + 1.0, t_hi - 1.0)
@@ -791,6 +803,12 @@ class _Tables:
             cpv = np.ones_like(Tg)
             rhol = np.ones_like(Tg)
         self.far = far
+        self.tab_b = None
+        if P_second is not None and np.any(has_fuel):
+            # the same rows at a second pressure: enthalpy and vaporised fraction are interpolated in pressure
+            hf_b, xv_b, _, _ = self._fuel_rows(fuel, Tg, P_second, np.where(has_fuel, far, 1e-6), n_dense)
+            self.tab_b = np.stack([h_air + far[None, :] * hf_b, np.where(has_fuel[None, :], xv_b, 1.0)])
+            self.Pa, self.Pb = P, P_second
         tab[self.H] = h_air + far[None, :] * hf
         tab[self.XV] = np.where(has_fuel[None, :], xv, 1.0)
         tab[self.CPV] = cpv
@@ -800,8 +818,9 @@ class _Tables:
         if np.any(np.diff(tab[self.H], axis=0) <= 0):
             raise FuelsysInputError("the fuel model's enthalpy does not rise with temperature; "
                                     "the vaporiser march needs an increasing enthalpy")
-        Hmin = tab[self.H].min()
-        span = tab[self.H].max() - Hmin
+        both = tab[self.H] if self.tab_b is None else np.concatenate([tab[self.H], self.tab_b[0]])
+        Hmin = both.min() - (0.5 * (both.max() - both.min()) if self.tab_b is not None else 0.0)
+        span = both.max() - Hmin + (both.max() - both.min())
         self._offset = np.arange(N) * (2.0 * span + 1.0)
         self._Hflat = (tab[self.H] - Hmin + self._offset[None, :]).T.ravel()
         self._Hmin = Hmin
@@ -855,20 +874,41 @@ class _Tables:
         idx = np.clip(np.floor(s).astype(np.intp), 0, self.nT - 2)
         return idx, s - idx
 
-    def props(self, T):
-        """(K, N) properties at temperature T (linear interpolation) and dH/dT there."""
+    def _weight(self, P):
+        """Interpolation weight of the second-pressure table (0 at the first pressure)."""
+        return np.clip((self.Pa - P) / (self.Pa - self.Pb), 0.0, 1.5)
+
+    def props(self, T, P):
+        """(K, N) properties at temperature T and pressure P (linear interpolation) and dH/dT there."""
         idx, w = self.locate(T)
         lo = self.tab[:, idx, self.cols]
         hi = self.tab[:, idx + 1, self.cols]
-        return lo + w * (hi - lo), (hi[self.H] - lo[self.H]) / self._spacing(idx)
+        val = lo + w * (hi - lo)
+        slope = (hi[self.H] - lo[self.H]) / self._spacing(idx)
+        if self.tab_b is not None:
+            s = self._weight(P)
+            lob = self.tab_b[:, idx, self.cols]
+            hib = self.tab_b[:, idx + 1, self.cols]
+            vb = lob + w * (hib - lob)
+            val[self.H] += s * (vb[0] - val[self.H])
+            val[self.XV] += s * (vb[1] - val[self.XV])
+            slope = slope + s * ((hib[0] - lob[0]) / self._spacing(idx) - slope)
+        return val, slope
 
-    def temperature(self, H):
-        """Temperature at mixture enthalpy H (per kg air), inverted on the table."""
-        key = H - self._Hmin + self._offset
-        pos = np.searchsorted(self._Hflat, key, side="right") - 1
+    def temperature(self, H, P):
+        """Temperature at mixture enthalpy H (per kg air) and pressure P, inverted on the table."""
+        if self.tab_b is None:
+            Htab, flat, offset = self.tab[self.H], self._Hflat, self._offset
+        else:
+            Htab = self.tab[self.H] + self._weight(P)[None, :] * (self.tab_b[0] - self.tab[self.H])
+            Htab = np.maximum.accumulate(Htab, axis=0) + 1e-9 * np.arange(self.nT)[:, None]
+            offset = self._offset
+            flat = (Htab - self._Hmin + offset[None, :]).T.ravel()
+        key = H - self._Hmin + offset
+        pos = np.searchsorted(flat, key, side="right") - 1
         idx = np.clip(pos - self.cols * self.nT, 0, self.nT - 2)
-        h0 = self.tab[self.H, idx, self.cols]
-        h1 = self.tab[self.H, idx + 1, self.cols]
+        h0 = Htab[idx, self.cols]
+        h1 = Htab[idx + 1, self.cols]
         w = (H - h0) / (h1 - h0)
         return self.Tg[idx, self.cols] + self._spacing(idx) * w
 
@@ -897,11 +937,10 @@ class _Leg:
 class _Context:
     """Everything fixed for one call: flows, geometry, fuel, tables."""
 
-    def __init__(self, fuel, m_air, far, liquid_per_air, tables, laminar, inner_htc, M_fuel):
+    def __init__(self, fuel, m_air, far, tables, laminar, inner_htc, M_fuel):
         self.fuel = fuel
         self.m_air = m_air
-        self.far = far
-        self.liq = liquid_per_air
+        self.far = far   # all the liquid (oil included) per kg air: the fuel object carries its oil
         self.tab = tables
         self.laminar = laminar
         self.inner_htc = inner_htc
@@ -1020,12 +1059,12 @@ def _march_leg(ctx, state, leg, n, record):
     t = ctx.tab
     dx = leg.length / n
     area = 0.25 * np.pi * leg.bore ** 2
-    mass_per_air = 1.0 + ctx.far + ctx.liq
+    mass_per_air = 1.0 + ctx.far
     G = ctx.m_air * mass_per_air / area
     H, T, P, wall = state.H, state.T, state.P, state.wall
     x0 = state.x
     heat_in = np.zeros_like(H)
-    pr, slope = t.props(T)
+    pr, slope = t.props(T, P)
     v = _specific_volume(ctx, T, P, pr) / mass_per_air
     if record is not None and not record["x"]:
         _, _, twi0, _, Re0, _ = _transfer(ctx, leg, T, pr, np.zeros_like(dx), dx, wall)
@@ -1038,25 +1077,26 @@ def _march_leg(ctx, state, leg, n, record):
         UA, Teq, twi, q, Re, Pr = _transfer(ctx, leg, T, pr, x1, x2, wall)
         c0 = np.maximum(slope, 1e-6)
         Hs = H + _exp_step(c0, Teq - T, UA * dx / (ctx.m_air * c0))
-        Ts = t.temperature(Hs)
+        Ts = t.temperature(Hs, P)
         # corrector at the step's midpoint with the chord heat capacity
         dT = Ts - T
         c = np.where(np.abs(dT) > 1e-9, (Hs - H) / np.where(np.abs(dT) > 1e-9, dT, 1.0), c0)
         c = np.maximum(c, 1e-6)
         Tm = 0.5 * (T + Ts)
-        prm, _ = t.props(Tm)
+        prm, _ = t.props(Tm, P)
         UA, Teq, twi, q, Re, Pr = _transfer(ctx, leg, Tm, prm, x1, x2, twi)
         dH = _exp_step(c, Teq - T, UA * dx / (ctx.m_air * c))
-        heat_in = heat_in + q * dx
+        heat_in = heat_in + ctx.m_air * dH  # the wall's heat over the step, by the same exponential profile
         H = H + dH
-        T = t.temperature(H)
+        T = t.temperature(H, P)
         wall = twi
-        pr, slope = t.props(T)
+        pr, slope = t.props(T, P)
         # pressure: homogeneous friction at the midpoint plus acceleration
         fd = heat.darcy_friction_smooth(Re)
         vm = _specific_volume(ctx, Tm, P, prm) / mass_per_air
         v_new = _specific_volume(ctx, T, P, pr) / mass_per_air
-        P = P - fd * dx / leg.bore * 0.5 * G * G * vm - G * G * (v_new - v)
+        # floor: a choking flow is refused after the march (pressure below half the inlet's)
+        P = np.maximum(P - fd * dx / leg.bore * 0.5 * G * G * vm - G * G * (v_new - v), 0.25 * state.P)
         v = v_new
         if record is not None:
             record["x"].append(x0 + x2)
@@ -1348,6 +1388,80 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     else:
         inner = None
 
+    D_given = None if droplet_diameter is None else _as_points(
+        shape, _require_positive("droplet diameter", droplet_diameter, 1e6, "µm"))[0]
+    NB = None if needle_bore is None else _as_points(shape, _require_positive("needle bore", needle_bore, 1e3, "mm"))[0]
+    n_table = tuple(int(n) for n in n_table)
+    if len(n_table) != 2 or n_table[0] < 4 or n_table[1] < 2:
+        raise FuelsysInputError(f"n_table must be (>= 4, >= 2) nodes (got {n_table})")
+    args = [fuel, d, L, m_air, m_liq, P0, Ta, Tfuel, kind, wall_data, t_wall_min, t_wall_max, inner, D_given, NB,
+            n_steps, n_table, laminar, flame_speed_method, coking_limit, ambient_pressure, check_steps]
+    res = _solve(*args)
+    # where the tube's pressure drop moves the equilibrium enough to show in the energy balance, march
+    # again with flash tables at the inlet and the exit pressure
+    redo = np.flatnonzero((np.abs(res["energy_error"]) > 0.5 * ENERGY_TOLERANCE)
+                          & (res["pressure_drop"] > 1e-3 * P0) & (m_liq > 0))
+    if redo.size:
+        sub = [_take(a, redo) for a in args[:13]] + [_take(a, redo) for a in args[13:15]] + args[15:]
+        p_exit = P0[redo] - res["pressure_drop"][redo]
+        again = _solve(*sub, p_second=np.minimum(p_exit, P0[redo] * (1.0 - 1e-3)))
+        better = np.abs(again["energy_error"]) < np.abs(res["energy_error"][redo])
+        _merge(res, again, redo[better], np.flatnonzero(better))
+    for text in sorted({t for v in res["validity"] if v for t in v.split("; ")}):
+        warnings.warn(f"vaporiser: {text}", ValidityWarning, stacklevel=2)
+
+    def out(a):
+        a = np.asarray(a)
+        if a.dtype == bool:
+            return bool(a.reshape(shape)) if shape == () else a.reshape(shape)
+        return _out(a.reshape(shape))
+
+    def out_text(items):
+        if shape == ():
+            return items[0]
+        return np.array(items, dtype=object).reshape(shape)
+
+    profile = {key: val.reshape((n_steps + 1,) + shape) for key, val in res.pop("profile").items()}
+    texts = {key: out_text(res.pop(key)) for key in ("verdict", "validity")}
+    return VaporiserResult(**{key: out(val) for key, val in res.items()}, **texts, profile=profile)
+
+
+def _take(a, idx):
+    """Entries ``idx`` of a per-point input (array, profile tuple or flame-side dict); others unchanged."""
+    if a is None or isinstance(a, str):
+        return a
+    if isinstance(a, tuple):
+        return (a[0], a[1][idx])
+    if isinstance(a, dict):
+        return {k: v[idx] for k, v in a.items()}
+    if isinstance(a, np.ndarray) and a.ndim == 1:
+        return a[idx]
+    return a
+
+
+def _merge(res, part, into, source):
+    """Put the points ``source`` of the result dict ``part`` at the points ``into`` of ``res``."""
+    for key, val in part.items():
+        if key == "profile":
+            for k, v in val.items():
+                res["profile"][k][:, into] = v[:, source]
+        elif isinstance(val, list):
+            for i, j in zip(into, source):
+                res[key][i] = val[j]
+        else:
+            res[key][into] = np.asarray(val)[source]
+
+
+def _solve(fuel, d, L, m_air, m_liq, P0, Ta, Tfuel, kind, wall_data, t_wall_min, t_wall_max, inner, D_given,
+           NB, n_steps, n_table, laminar, flame_speed_method, coking_limit, ambient_pressure, check_steps,
+           p_second=None):
+    """The march and its margins on flat arrays of N points; returns a dict of flat results.
+
+    ``p_second`` (N,) adds flash tables at a second pressure, interpolated in
+    pressure along the tube (used where the tube's pressure drop moves the
+    equilibrium enough to show in the energy balance).
+    """
+    N = d.size
     # ---- fuel, flows and tables ---------------------------------------------------
     oil_w = _oil_share(fuel)
     volatile = 1.0 - oil_w
@@ -1355,34 +1469,38 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     has_fuel = far > 0
     M_fuel = float(fuel.molar_mass) if np.any(has_fuel) else thermo.M_AIR
     stoich = float(fuel.stoich_far) if np.any(has_fuel) else math.nan
-    t_lo = np.minimum(np.minimum(Ta, Tfuel), t_wall_min) - 2.0
-    t_hi = np.maximum(Ta, t_wall_max) + 2.0
+    # inlet: adiabatic mixing of the air with the liquid fuel at its own temperature
+    h_air_in = np.asarray(thermo.enthalpy(Ta), dtype=float)
+    h_fuel_in = _liquid_enthalpy(fuel, Tfuel) if np.any(has_fuel) else np.zeros(N)
+    H_in = h_air_in + far * h_fuel_in
+    t_in_min = np.minimum(Ta, Tfuel)
+    t_mix_low = _flash_cooling(fuel, H_in, t_in_min, P0, far, has_fuel)
+    t_lo = np.minimum(t_mix_low, t_wall_min) - 2.0
+    t_hi = np.maximum(np.maximum(Ta, Tfuel), t_wall_max) + 2.0
     if np.any(has_fuel):
         t_lo = np.maximum(t_lo, float(fuel.t_min))
-        t_lo = np.minimum(t_lo, np.minimum(Ta, Tfuel))
-    n_dense, n_sparse = (int(n) for n in n_table)
-    if n_dense < 4 or n_sparse < 2:
-        raise FuelsysInputError(f"n_table must be (>= 4, >= 2) nodes (got {n_table})")
+    # a near-sonic inlet would choke: the march treats the gas as low-speed flow
+    rho_in = P0 / (thermo.R_AIR * Ta)
+    mach_in = m_air / (rho_in * 0.25 * np.pi * d * d) / np.sqrt(np.asarray(thermo.gamma(Ta)) * thermo.R_AIR * Ta)
+    if np.any(mach_in > MACH_LIMIT):
+        i = int(np.argmax(mach_in))
+        raise FuelsysInputError(
+            f"air flow {m_air[i] * 1e3:g} g/s is too much for a {d[i] * 1e3:g} mm tube at {P0[i] / 1e5:g} bar abs: "
+            f"inlet Mach number {mach_in[i]:.2f} (allowed < {MACH_LIMIT:g}); the tube would choke")
+    n_dense, n_sparse = n_table
     with warnings.catch_warnings():
         # nodes the march may never reach (up to the wall temperature) must not raise the fuel model's
         # range warnings; the exit state is evaluated again below, with its warnings
         warnings.simplefilter("ignore", ValidityWarning)
         if np.any(has_fuel):
-            t_dew_in = np.asarray(fuel.dew_point(P0, np.where(has_fuel, far, 1e-6)), dtype=float) * np.ones(N)
+            t_dew_in, _ = _dew_point(fuel, P0, np.where(has_fuel, far, 1e-6))
         else:
             t_dew_in = t_lo + 1.0
-        tables = _Tables(fuel, t_lo, t_dew_in + TABLE_KNEE_K, t_hi, P0, far, has_fuel, n_dense, n_sparse)
-    # the liquid (oil included) is all in far: the fuel object carries its oil
-    ctx = _Context(fuel, m_air, far, np.zeros(N), tables, laminar, inner, M_fuel)
+        tables = _Tables(fuel, t_lo, t_dew_in + TABLE_KNEE_K, t_hi, P0, far, has_fuel, n_dense, n_sparse,
+                         p_second)
+    ctx = _Context(fuel, m_air, far, tables, laminar, inner, M_fuel)
 
-    # inlet: adiabatic mixing of the air with the liquid fuel at its own temperature
-    h_air_in = np.asarray(thermo.enthalpy(Ta), dtype=float)
-    if np.any(has_fuel):
-        h_fuel_in = _liquid_enthalpy(fuel, Tfuel)
-    else:
-        h_fuel_in = np.zeros(N)
-    H_in = h_air_in + far * h_fuel_in
-    T_mix = tables.temperature(H_in)
+    T_mix = tables.temperature(H_in, P0)
     P_start = P0.copy()
 
     if kind == "uniform":
@@ -1403,6 +1521,12 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
         if check_steps:
             coarse, _ = _march_leg(ctx, state0, leg, n_steps // 2, None)
     T_exit, P_exit = state.T, state.P
+    if np.any(P_exit < 0.5 * P0):
+        i = int(np.argmin(P_exit / P0))
+        raise FuelsysInputError(
+            f"the tube's own pressure drop would exceed half the case pressure ({(P0[i] - P_exit[i]) / 1e5:.3g} of "
+            f"{P0[i] / 1e5:g} bar): too much air ({m_air[i] * 1e3:g} g/s) for a {d[i] * 1e3:g} mm tube "
+            f"{L[i] * 1e3:g} mm long; the flow would choke")
 
     # ---- exit state straight from the fuel model ---------------------------------
     flags = _flags_for(N)
@@ -1410,9 +1534,20 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
         far_s = np.where(has_fuel, far, 1e-6)
         with warnings.catch_warnings(record=True) as caught:
             warnings.simplefilter("always", ValidityWarning)
-            xv_exit = np.asarray(fuel.vapour_fraction(T_exit, P_exit, far_s), dtype=float)
-            h_f_exit = np.asarray(fuel.enthalpy(T_exit, P_exit, far_s), dtype=float)
-            dew = np.where(has_fuel, np.asarray(fuel.dew_point(P_exit, far_s), dtype=float), np.nan)
+            try:
+                xv_exit = np.asarray(fuel.vapour_fraction(T_exit, P_exit, far_s), dtype=float)
+                h_f_exit = np.asarray(fuel.enthalpy(T_exit, P_exit, far_s), dtype=float)
+            except FuelsysInputError as exc:
+                # beyond the fuel model's flash (e.g. a vapour hotter than its range): the tables carry on
+                # with the vapour's heat capacity; say so
+                pr_exit, _ = tables.props(T_exit, P_exit)
+                xv_exit = pr_exit[tables.XV]
+                h_f_exit = (pr_exit[tables.H] - np.asarray(thermo.enthalpy(T_exit))) / far_s
+                _flag(flags, has_fuel, f"exit state beyond the fuel model ({exc}); continued with the vapour's "
+                                       "heat capacity")
+            dew, low = _dew_point(fuel, P_exit, far_s)
+            _flag(flags, has_fuel & low, "dew point below the fuel model's range (its lowest temperature used)")
+            dew = np.where(has_fuel, dew, np.nan)
             t_bub = np.asarray(fuel.bubble_point(P0), dtype=float) * np.ones(N)
         for w in caught:
             if issubclass(w.category, ValidityWarning):
@@ -1429,14 +1564,15 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     H_exit = np.asarray(thermo.enthalpy(T_exit), dtype=float) + far * h_f_exit
     rise = m_air * (H_exit - H_in)
     heat_w = q_in
-    scale = np.maximum(np.abs(rise), np.maximum(np.abs(heat_w), 1e-12))
+    # relative to the enthalpy rise, or to 1 K of the air's heating where the rise is smaller
+    scale = np.maximum(np.maximum(np.abs(rise), np.abs(heat_w)), m_air * 1000.0)
     energy_error = (heat_w - rise) / scale
     _flag(flags, np.abs(energy_error) > ENERGY_TOLERANCE,
           f"energy balance off by more than {ENERGY_TOLERANCE * 100:g} % (raise n_steps)")
     if check_steps:
         err_T = np.abs(T_exit - coarse.T) / 3.0
-        xv_coarse = tables.props(coarse.T)[0][tables.XV]
-        xv_fine = tables.props(T_exit)[0][tables.XV]
+        xv_coarse = tables.props(coarse.T, coarse.P)[0][tables.XV]
+        xv_fine = tables.props(T_exit, P_exit)[0][tables.XV]
         err_x = np.abs(xv_fine - xv_coarse) / 3.0 / volatile
         _flag(flags, err_T > STEP_TOLERANCE_K,
               f"march not converged: step-doubling estimate above {STEP_TOLERANCE_K:g} K (raise n_steps)")
@@ -1448,11 +1584,11 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     x_nodes = np.concatenate([np.zeros((1, N)), np.asarray(record["x"])])
     T_nodes = np.concatenate([T_mix[None, :], np.asarray(record["T"])])
     P_nodes = np.concatenate([P_start[None, :], np.asarray(record["P"])])
-    pr_nodes = np.stack([tables.props(Ti)[0] for Ti in T_nodes], axis=1)  # (K, n+1, N)
+    pr_nodes = np.stack([tables.props(Ti, Pi)[0] for Ti, Pi in zip(T_nodes, P_nodes)], axis=1)  # (K, n+1, N)
     xv_nodes = pr_nodes[tables.XV]
     xv_nodes[-1] = xv_exit
     wall_nodes = _node_walls(ctx, leg, record, n_steps)
-    vol0 = _specific_volume(ctx, T_mix, P_start, tables.props(T_mix)[0])
+    vol0 = _specific_volume(ctx, T_mix, P_start, tables.props(T_mix, P_start)[0])
     vol_nodes = np.concatenate([vol0[None, :], np.asarray(record["vol"])])
     area = 0.25 * np.pi * d * d
     u_nodes = m_air * vol_nodes / area
@@ -1490,13 +1626,12 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     else:
         K_nodes = np.zeros_like(T_nodes)
         d_we = d.copy()
-    if droplet_diameter is not None:
-        D0 = _as_points(shape, _require_positive("droplet diameter", droplet_diameter, 1e6, "µm"))[0]
+    if D_given is not None:
+        D0 = D_given
     else:
         D0 = np.minimum(d_we, d)
-        if needle_bore is not None:
-            nb = _as_points(shape, _require_positive("needle bore", needle_bore, 1e3, "mm"))[0]
-            D0 = np.minimum(D0, heat.RAYLEIGH_DROP_RATIO * nb)
+        if NB is not None:
+            D0 = np.minimum(D0, heat.RAYLEIGH_DROP_RATIO * NB)
     D2 = np.empty_like(T_nodes)
     D2[0] = D0 * D0
     life = np.full(N, np.inf)
@@ -1570,49 +1705,90 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     if np.any(has_fuel) and np.any(T_exit > float(fuel.t_max)):
         _flag(flags, has_fuel & (T_exit > float(fuel.t_max)),
               f"exit above the liquid-property range of {fuel.name} ({float(fuel.t_max) - T0_C:.0f} °C)")
+    _flag(flags, mach_in > 0.3, "inlet Mach number above 0.3 (compressibility neglected in the march)")
     validity = ["; ".join(f) for f in flags]
-    for text in sorted({t for f in flags for t in f}):
-        warnings.warn(f"vaporiser: {text}", ValidityWarning, stacklevel=2)
 
-    # ---- verdict ------------------------------------------------------------------------
+
     dew_margin = T_exit - dew
     verdict = _verdicts(N, has_fuel, vap_share, dew_margin, survive, life, t_res, coking, max_wet,
                         coking_limit, flashback, margin, flammable, X_nodes[-1], oil_residue, T_exit,
                         Ta, wall_nodes, D0, fuel_wet)
-
-    def out(a):
-        a = np.asarray(a)
-        if a.dtype == bool:
-            return bool(a.reshape(shape)) if shape == () else a.reshape(shape)
-        return _out(a.reshape(shape))
-
-    def out_text(items):
-        if shape == ():
-            return items[0]
-        return np.array(items, dtype=object).reshape(shape)
-
     profile = {
-        "position": x_nodes.reshape((n_steps + 1,) + shape),
-        "gas_temperature": T_nodes.reshape((n_steps + 1,) + shape),
-        "wall_temperature": wall_nodes.reshape((n_steps + 1,) + shape),
-        "vapour_fraction": (np.where(has_fuel[None, :], xv_nodes / volatile, 1.0)).reshape((n_steps + 1,) + shape),
-        "velocity": u_nodes.reshape((n_steps + 1,) + shape),
-        "pressure": P_nodes.reshape((n_steps + 1,) + shape),
-        "droplet_diameter": np.sqrt(D2).reshape((n_steps + 1,) + shape),
-        "time": time_nodes.reshape((n_steps + 1,) + shape),
+        "position": x_nodes, "gas_temperature": T_nodes, "wall_temperature": wall_nodes,
+        "vapour_fraction": np.where(has_fuel[None, :], xv_nodes / volatile, 1.0), "velocity": u_nodes,
+        "pressure": P_nodes, "droplet_diameter": np.sqrt(D2), "time": time_nodes,
     }
-    return VaporiserResult(
-        vapour_fraction=out(vap_share), exit_temperature=out(T_exit), dew_point=out(dew),
-        dew_margin=out(dew_margin), residence_time=out(t_res), droplet_diameter=out(D0),
-        droplet_lifetime=out(life), droplets_survive=out(survive), exit_droplet_diameter=out(np.sqrt(D2[-1])),
-        tube_phi=out(tube_phi), exit_vapour_phi=out(vap_phi_nodes[-1]), flammable=out(flammable),
-        lower_limit_phi=out(lfl_phi), upper_limit_phi=out(ufl_phi), exit_velocity=out(u_nodes[-1]),
-        flame_speed=out(sl_nodes[-1]), turbulent_flame_speed=out(st_nodes[-1]), flashback_margin=out(margin),
-        max_wet_wall=out(max_wet), max_wall=out(max_wall), coking_risk=out(coking), oil_residue=out(oil_residue),
-        pressure_drop=out(P_start - P_exit), heat_in=out(heat_w), enthalpy_rise=out(rise),
-        energy_error=out(energy_error), step_error_temperature=out(err_T), step_error_vapour=out(err_x),
-        reynolds_in=out(Re_nodes[0]), reynolds_exit=out(Re_nodes[-1]), verdict=out_text(verdict),
-        validity=out_text(validity), profile=profile)
+    return dict(
+        vapour_fraction=vap_share, exit_temperature=T_exit, dew_point=dew, dew_margin=dew_margin,
+        residence_time=t_res, droplet_diameter=D0, droplet_lifetime=life, droplets_survive=survive,
+        exit_droplet_diameter=np.sqrt(D2[-1]), tube_phi=tube_phi, exit_vapour_phi=vap_phi_nodes[-1],
+        flammable=flammable, lower_limit_phi=lfl_phi * np.ones(N), upper_limit_phi=ufl_phi * np.ones(N),
+        exit_velocity=u_nodes[-1], flame_speed=sl_nodes[-1], turbulent_flame_speed=st_nodes[-1],
+        flashback_margin=margin, max_wet_wall=max_wet, max_wall=max_wall, coking_risk=coking,
+        oil_residue=oil_residue, pressure_drop=P_start - P_exit, heat_in=heat_w, enthalpy_rise=rise,
+        energy_error=energy_error, step_error_temperature=err_T, step_error_vapour=err_x,
+        reynolds_in=Re_nodes[0], reynolds_exit=Re_nodes[-1], verdict=verdict, validity=validity,
+        profile=profile)
+
+
+def _flash_cooling(fuel, H_in, t_in_min, P, far, has_fuel, iterations=16):
+    """Lowest temperature the inlet mixture can take [K]: below both streams where fuel flashes.
+
+    Where the fuel model's mixture enthalpy at the colder stream's
+    temperature exceeds the inlet enthalpy, fuel evaporating at the inlet
+    cools the mixture below both streams; the mixing temperature is then
+    bracketed by bisection on the fuel model (the lower bracket is returned),
+    starting from the bound ``far L / cp_air`` (all the fuel evaporating on
+    the air's heat, cp_air >= 1000 J/(kg K), L 30 % above its inlet value).
+    """
+    out = t_in_min.copy()
+    if not np.any(has_fuel):
+        return out
+    far_s = np.where(has_fuel, far, 1e-6)
+
+    def H(T, idx):
+        return np.asarray(thermo.enthalpy(T), dtype=float) + far[idx] * np.asarray(
+            fuel.enthalpy(T, P[idx], far_s[idx]), dtype=float)
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", ValidityWarning)
+        allp = np.arange(t_in_min.size)
+        cold = np.flatnonzero(has_fuel & (H(t_in_min, allp) > H_in))
+        if cold.size == 0:
+            return out
+        latent = np.asarray(fuel.latent_heat(np.clip(t_in_min[cold], fuel.t_min, fuel.t_max)), dtype=float)
+        lo = np.maximum(t_in_min[cold] - far[cold] * 1.3 * latent / 1000.0 - 2.0, float(fuel.t_min))
+        hi = t_in_min[cold].copy()
+        for _ in range(iterations):
+            mid = 0.5 * (lo + hi)
+            above = H(mid, cold) > H_in[cold]
+            hi = np.where(above, mid, hi)
+            lo = np.where(above, lo, mid)
+    out[cold] = lo
+    return out
+
+
+def _dew_point(fuel, P, far):
+    """Dew point of the fuel-air mixture [K] and where it lies below the fuel model's range.
+
+    A gas fuel at a low fuel/air ratio has its dew point below the lowest
+    temperature the model covers (the fuel model refuses it): the lowest
+    temperature is used and those points are marked.
+    """
+    try:
+        return np.asarray(fuel.dew_point(P, far), dtype=float) * np.ones(np.shape(P)), np.zeros(np.shape(P), bool)
+    except FuelsysInputError:
+        if getattr(fuel, "kind", "") == "liquid":
+            raise
+    out = np.empty(np.shape(P))
+    low = np.zeros(np.shape(P), dtype=bool)
+    for i in range(out.size):  # only on this rare path: find the points the model refuses
+        try:
+            out.flat[i] = float(fuel.dew_point(np.ravel(P)[i], np.ravel(far)[i]))
+        except FuelsysInputError:
+            out.flat[i] = float(fuel.t_min)
+            low.flat[i] = True
+    return out, low
 
 
 def _liquid_enthalpy(fuel, T):
