@@ -49,7 +49,7 @@ from the wall (each step's exponential profile integrated) is compared with
 the enthalpy rise from the fuel model at the exit temperature and pressure
 (``energy_error``): it checks the tables, the inversion and the pressure
 handling against the fuel model itself.  Where it is off by more than a
-quarter of :data:`ENERGY_TOLERANCE` because the tube's pressure drop moves
+half of :data:`ENERGY_TOLERANCE` because the tube's pressure drop moves
 the equilibrium, those points are marched again with flash tables at the
 inlet and the exit pressure, interpolated in pressure.  The march is also
 repeated with half the steps for a step-doubling (Richardson) error estimate
