@@ -27,6 +27,8 @@ from fuelsys.sheet import catalogue
 from fuelsys.sheet.layout import NOTE_FONT, SheetWriter, col
 
 STARTER_PATH = Path(__file__).resolve().parents[2] / "workbook" / "fuelsys-starter.xlsx"
+#: the demo engine's filled book, kept in examples/
+EXAMPLE_PATH = Path(__file__).resolve().parents[2] / "examples" / "fuelsys-demo.xlsx"
 
 SAFETY_LINES = (
     "Fuel under pressure, flame and fast-rotating parts can hurt people.",
@@ -597,8 +599,8 @@ def build(path: Path | str = STARTER_PATH, compute: bool = True, scenario=None, 
 
 
 def main(argv=None) -> int:
-    out = build()
-    print(f"wrote {out}")
+    for out in (build(), build(EXAMPLE_PATH, title_note="demo")):
+        print(f"wrote {out}")
     return 0
 
 
