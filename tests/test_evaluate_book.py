@@ -295,3 +295,39 @@ def test_evaluate_workbook_keys_and_values(tmp_path):
 
     got = ev.evaluate_workbook(book(tmp_path, fill))
     assert got == {("My Sheet", "A1"): bi.DIV0, ("My Sheet", "A2"): "a"}
+
+
+def _shape_spec():
+    def impl(grid):
+        return float(len(grid) * 1000 + len(grid[0]))
+
+    return Spec(name="FS_TEST_SHAPE", category="about", summary="rows*1000+columns of a range", source="test",
+                args=(Arg("grid", "cells", "-", "a range"),), returns=Returns("number", "-", "a shape"), impl=impl)
+
+
+def test_ranges_reach_catalogue_functions_in_their_shape(tmp_path, monkeypatch):
+    funcs = dict(ev._catalogue())
+    funcs["FS_TEST_SHAPE"] = _shape_spec()
+    monkeypatch.setattr(ev, "_catalogue", lambda: funcs)
+
+    def fill(wb):
+        s = wb.active
+        s.title = "S"
+        s["A1"], s["A2"], s["A3"] = 1, 2, 3
+        s["B1"] = "=FS_TEST_SHAPE(A1:A10)"  # typed range: all 10 rows, empty ones as empty cells
+        s["B2"] = "=FS_TEST_SHAPE(A:A)"  # whole column: up to the last used row (3)
+        s["B3"] = "=FS_TEST_SHAPE(A1:B2)"
+
+    values, skipped = compute(book(tmp_path, fill))
+    assert not skipped
+    assert values["S!B1"] == 10001.0 and values["S!B2"] == 3001.0 and values["S!B3"] == 2002.0
+
+
+def test_at_operator_is_implicit_intersection(tmp_path):
+    # Excel stores =@A1:A3 as _xlfn.SINGLE(A1:A3) [IMPL]
+    cells = [c("A1", "1"), c("A2", "20"), c("A3", "300"), c("B2", f="_xlfn.SINGLE(A1:A3)*2"),
+             c("C1", "0", f="_xlfn.SINGLE(A1:A3)+0", fattrs=' t="array" ref="C1"')]
+    path = raw_book(str(tmp_path / "at.xlsx"), [("S", rows_xml(cells))])
+    got = ev.evaluate_workbook(path)
+    assert got[("S", "B2")] == 40.0
+    assert got[("S", "C1")] == 1.0  # row 1 of A1:A3

@@ -90,9 +90,10 @@ class Array:
     used row (everything after it is empty, read back as ``None``).
     """
 
-    __slots__ = ("rows", "nrows", "ncols", "is_ref", "sheet", "r0", "c0")
+    __slots__ = ("rows", "nrows", "ncols", "is_ref", "sheet", "r0", "c0", "clipped")
 
-    def __init__(self, rows, nrows=None, ncols=None, is_ref=False, sheet=None, r0=1, c0=1):
+    def __init__(self, rows, nrows=None, ncols=None, is_ref=False, sheet=None, r0=1, c0=1, clipped=False):
+        self.clipped = clipped  # a whole column or row, stored only as far as the sheet is used
         self.rows = rows
         self.nrows = len(rows) if nrows is None else nrows
         self.ncols = (len(rows[0]) if rows else 0) if ncols is None else ncols
@@ -875,10 +876,10 @@ def fn_index(arr, row, col=MISSING):
         return arr
     if r == 0:
         rows = [[arr.at(i, c - 1)] for i in range(min(arr.nrows, len(arr.rows)))]
-        return Array(rows, arr.nrows, 1, arr.is_ref, arr.sheet, arr.r0, arr.c0 + c - 1)
+        return Array(rows, arr.nrows, 1, arr.is_ref, arr.sheet, arr.r0, arr.c0 + c - 1, arr.clipped)
     if c == 0:
         rows = [[arr.at(r - 1, j) for j in range(arr.ncols)]]
-        return Array(rows, 1, arr.ncols, arr.is_ref, arr.sheet, arr.r0 + r - 1, arr.c0)
+        return Array(rows, 1, arr.ncols, arr.is_ref, arr.sheet, arr.r0 + r - 1, arr.c0, arr.clipped)
     return arr.at(r - 1, c - 1)
 
 
@@ -1074,7 +1075,7 @@ REFUSED = {
 }
 
 #: functions the evaluator handles itself (they choose which argument to evaluate)
-SPECIAL = ("IF", "IFERROR", "IFNA", "CHOOSE")
+SPECIAL = ("IF", "IFERROR", "IFNA", "CHOOSE", "SINGLE")
 
 
 def supported_names() -> list[str]:

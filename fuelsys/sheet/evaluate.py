@@ -38,6 +38,7 @@ Python API
 
 from __future__ import annotations
 
+import gc
 import math
 import os
 import re
@@ -660,11 +661,9 @@ class _Compiler:
         si = self._sheet(sh)
         if si is None:
             return _const(bi.REF)
-        nominal_r = (1, MAX_ROW) if r1 is None else (r1, r2)
-        nominal_c = (1, MAX_COL) if c1 is None else (c1, c2)
-        r1, r2 = nominal_r
-        c1, c2 = nominal_c
-        whole = node[2] is None or node[3] is None
+        whole_cols, whole_rows = r1 is None, c1 is None
+        r1, r2 = (1, MAX_ROW) if whole_cols else (r1, r2)
+        c1, c2 = (1, MAX_COL) if whole_rows else (c1, c2)
         if not ref and not self.array_mode:
             # implicit intersection: the cell of the range in this formula's row or column
             rr = r1 if r1 == r2 else (self.r if r1 <= self.r <= r2 else None)
@@ -672,14 +671,17 @@ class _Compiler:
             if rr is None or cc is None:
                 return _const(bi.VALUE)
             return self._cell(("cell", sh, rr, cc, True, True), False)
-        if whole and not ref:
+        if (whole_cols or whole_rows) and not ref:
             raise Unsupported("whole-column or whole-row reference in an element-wise array operation")
+        # a whole column or row stops at the sheet's last used cell (the rest is empty);
+        # a range typed out in full is read in full
         maxr, maxc = self.e.extent[si]
-        er, ec = min(r2, maxr), min(c2, maxc)
+        er = min(r2, maxr) if whole_cols else r2
+        ec = min(c2, maxc) if whole_rows else c2
+        if max(0, er - r1 + 1) * max(0, ec - c1 + 1) > bi.MAX_ARRAY_CELLS:
+            raise Unsupported(f"range of more than {bi.MAX_ARRAY_CELLS} cells")
         self.deps.append((si, r1, c1, er, ec))
         nrows, ncols = r2 - r1 + 1, c2 - c1 + 1
-        if nrows * ncols > bi.MAX_ARRAY_CELLS and not whole:
-            raise Unsupported(f"range of {nrows * ncols} cells (more than {bi.MAX_ARRAY_CELLS})")
         vals = self.e.vals
         cache = self.e.area_cache
         akey = (si, r1, c1, r2, c2)
@@ -690,7 +692,7 @@ class _Compiler:
                 get = vals.get
                 cols = range(c1, ec + 1)
                 rows = [[get((si, rr, cc)) for cc in cols] for rr in range(r1, er + 1)]
-                arr = Array(rows, nrows, ncols, True, si, r1, c1)
+                arr = Array(rows, nrows, ncols, True, si, r1, c1, whole_cols or whole_rows)
                 cache[akey] = arr  # final: every formula cell in it was computed before this one
             return arr
 
@@ -805,8 +807,8 @@ class _Compiler:
                 v = f()
                 t = type(v)
                 if t is Array:
-                    rows = v.full_rows() if v.nrows * v.ncols <= bi.MAX_ARRAY_CELLS and len(v.rows) == v.nrows \
-                        else [list(r) for r in v.rows]
+                    # whole columns and rows come as far as the sheet's last used cell
+                    rows = [list(r) for r in v.rows] if v.clipped else v.full_rows()
                     for row in rows:
                         for x in row:
                             if type(x) is XlError:
@@ -876,6 +878,23 @@ class _Compiler:
             return fa() if catches(v) else v
 
         return catch
+
+    def _special_single(self, args, ref):
+        """``@x`` (stored as _xlfn.SINGLE): x reduced to one value by implicit intersection."""
+        self._arity("SINGLE", args, 1, 1)
+        saved, self.array_mode = self.array_mode, False
+        try:
+            f = self.comp(args[0])
+        finally:
+            self.array_mode = saved
+
+        def single():
+            v = f()
+            if type(v) is Array:
+                return v.at(0, 0) if v.nrows and v.ncols else bi.VALUE
+            return v
+
+        return single
 
     def _special_iferror(self, args, ref):
         return self._catch(args, ref, "IFERROR", lambda v: type(v) is XlError)
@@ -1042,6 +1061,17 @@ class Engine:
         return nodes, owner
 
     def run(self, progress=None) -> Computation:
+        """Compile, order and compute every formula cell (the garbage collector is paused
+        meanwhile: the run makes millions of small objects that hold no reference cycles)."""
+        was_enabled = gc.isenabled()
+        gc.disable()
+        try:
+            return self._run(progress)
+        finally:
+            if was_enabled:
+                gc.enable()
+
+    def _run(self, progress):
         t0 = time.perf_counter()
         nodes, owner = self._nodes()
         # compile
