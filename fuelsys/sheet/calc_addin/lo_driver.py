@@ -16,12 +16,13 @@ A job::
 
 One session: start soffice with its own profile (a fresh temporary one unless
 ``profile`` names one) and a unique pipe, in its own process group; install
-the extensions into the profile through the extension manager; for each book
-load it hidden, force recalculation with ``calculateAll()``, time the
-requested recalculations, store it as .xlsx when ``dst`` is given, read every
-formula cell when ``read`` is true, close it; then shut soffice down (the
-desktop's terminate(), then the process group killed after a timeout) in
-every case.
+the extensions into the profile through the extension manager, then restart
+soffice (an extension's UNO types load at start-up); for each book load a
+copy of it hidden (so no lock file is ever left beside the original), force
+recalculation with ``calculateAll()``, time the requested recalculations,
+store it as .xlsx when ``dst`` is given, read every formula cell when
+``read`` is true, close it; then shut soffice down (the desktop's
+terminate(), then the process group killed after a timeout) in every case.
 """
 
 import json
@@ -167,8 +168,19 @@ class Office:
         return {"oxt": oxt, "identifier": ident, "version": pkg.getVersion(), "profile": self.profile}
 
     def run_book(self, book):
+        """Load a copy of the book (so no lock file appears beside the original), compute, store, read."""
         out = {"src": book["src"]}
-        url = uno.systemPathToFileUrl(os.path.abspath(book["src"]))
+        work = tempfile.mkdtemp(prefix="fuelsys-lo-book-")
+        try:
+            copy = os.path.join(work, os.path.basename(book["src"]))
+            shutil.copyfile(book["src"], copy)
+            self._run_copy(book, copy, out)
+        finally:
+            shutil.rmtree(work, ignore_errors=True)
+        return out
+
+    def _run_copy(self, book, copy, out):
+        url = uno.systemPathToFileUrl(copy)
         t0 = time.perf_counter()
         doc = self.desktop.loadComponentFromURL(url, "_blank", 0, (_prop("Hidden", True),))
         out["load_s"] = time.perf_counter() - t0
@@ -189,7 +201,6 @@ class Office:
                 out["dst"] = dst
         finally:
             doc.close(True)
-        return out
 
     @staticmethod
     def _time(doc, spec):

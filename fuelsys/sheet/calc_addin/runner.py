@@ -155,7 +155,9 @@ def run_session(extensions=(), books=(), *, profile=None, timeout: float = 300.0
     python = find_uno_python(soffice)
     with tempfile.TemporaryDirectory(prefix="fuelsys-lo-") as tmp:
         pidfile = os.path.join(tmp, "soffice.pid")
-        job = {"soffice": soffice, "profile": str(profile) if profile else None, "timeout": min(timeout, 120.0),
+        # a fresh profile inside our own temporary directory, so it goes even if the driver is killed
+        profile = str(profile) if profile else os.path.join(tmp, "profile")
+        job = {"soffice": soffice, "profile": profile, "timeout": min(timeout, 120.0),
                "pidfile": pidfile, "extensions": [str(x) for x in extensions],
                "books": [{k: (str(v) if isinstance(v, Path) else v) for k, v in b.items()} for b in books]}
         child_env = _child_env(python)
@@ -165,9 +167,13 @@ def run_session(extensions=(), books=(), *, profile=None, timeout: float = 300.0
         try:
             out, err = proc.communicate(json.dumps(job).encode("utf-8"), timeout=timeout)
         except subprocess.TimeoutExpired:
-            proc.kill()
-            out, err = proc.communicate()
-            raise LibreOfficeError(f"the LibreOffice session did not finish within {timeout:.0f} s")
+            proc.terminate()  # the driver shuts soffice down on SIGTERM
+            try:
+                proc.communicate(timeout=30)
+            except subprocess.TimeoutExpired:
+                proc.kill()
+                proc.communicate()
+            raise LibreOfficeError(f"the LibreOffice session did not finish within {timeout:g} s")
         finally:
             _kill_leftover(pidfile)
     try:
