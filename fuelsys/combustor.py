@@ -806,7 +806,7 @@ def combustor(liner, fuel_flow, t3, p3, fuel="kerosene", *, air_flow=None, liner
     far_p = mf / (ma * share_p)
     far_s = mf / (ma * share_s)
     far_e = mf / ma
-    if np.any(far_e * eta > fs):
+    if np.any(far_e > fs):
         raise FuelsysInputError(
             f"the overall fuel/air ratio {float(np.max(far_e)):.4f} is richer than stoichiometric ({fs:.4f}): "
             "the exit would hold unburned fuel; allowed: a lean combustor overall")
@@ -848,8 +848,7 @@ def combustor(liner, fuel_flow, t3, p3, fuel="kerosene", *, air_flow=None, liner
             (rich_s, "secondary zone still rich: fuel burns on in the dilution zone")):
         texts = np.where(mask, np.where(texts == "", text, texts + "; " + text), texts)
 
-    def out(a):
-        return _out(a)
+    out = _out
 
     def flag(a):
         return np.asarray(a, dtype=bool) if shape else bool(a)

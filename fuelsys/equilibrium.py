@@ -461,10 +461,10 @@ def _equilibrate_hp(b0, h0, p, allowed, max_iter=80):
     # species whose elements are all present
     present = b0 > 0  # (N, E)
     allowed = allowed & ~np.any((_A.T[None, :, :] > 0) & ~present[:, None, :], axis=2)
-    n_tot = np.full(N, 0.1 * np.sum(b0, axis=1))  # a start well above the final moles, RP-1311 style
-    lnn = np.log(n_tot)
-    lnnj = np.where(allowed, lnn[:, None] - np.log(np.maximum(allowed.sum(1, keepdims=True), 1)), -np.inf)
-    lnnj = np.where(allowed, lnnj, 0.0)
+    # start as RP-1311 does: every allowed species alike, a hot guess of the temperature (3800 K);
+    # total moles a tenth of the atoms per kg (any positive start converges under the step control)
+    lnn = np.log(0.1 * np.sum(b0, axis=1))
+    lnnj = np.where(allowed, lnn[:, None] - np.log(np.maximum(allowed.sum(1, keepdims=True), 1)), 0.0)
     lnT = np.full(N, np.log(3800.0))
     lnp = np.log(p / P_STANDARD)
     converged = np.zeros(N, dtype=bool)

@@ -134,6 +134,16 @@ def test_propane_air_against_cantera_gri30(phi, T, p, ct, gri30):
     assert ours == pytest.approx(ref, abs=TOL_K), f"Cantera gri30 {ref:.1f} K"
 
 
+@pytest.mark.parametrize("T,p", [(250.0, 0.5e5), (900.0, 20e5)])
+@pytest.mark.parametrize("phi", [0.3, 1.6, 2.0])
+def test_corners_of_the_validity_range_against_cantera_gri30(phi, T, p, ct, gri30):
+    """The ends of VALIDITY (phi 0.3-2.0, 250-900 K, 0.5-20 bar): propane-air against Cantera gri30."""
+    fc = eq.fuel_composition("C3H8")
+    ours = eq.gordon_mcbride_1994(phi, T, p, fc, h_fuel=fc.sensible_enthalpy(T))
+    ref = _cantera_premixed(ct, gri30, "C3H8", phi, T, p, fc.stoich_far)
+    assert ours == pytest.approx(ref, abs=TOL_K), f"Cantera gri30 {ref:.1f} K"
+
+
 @pytest.mark.parametrize("T,p", CONDITIONS)
 @pytest.mark.parametrize("phi", PHIS)
 def test_kerosene_surrogate_vapour_against_cantera(phi, T, p, ct, jet_gas):
@@ -176,14 +186,14 @@ def test_kerosene_string_and_fuel_object_agree():
 # -- published values ------------------------------------------------------------------------
 def test_propane_stoichiometric_flame_against_published_value():
     # propane-air, phi = 1, 298 K, 1 atm, equilibrium: 2267 K (Turns, "An Introduction to Combustion",
-    # 3rd ed. 2012, Table B.1 / Glassman, "Combustion", 4th ed., Table 2.?; from memory)
+    # 3rd ed. 2012, Table B.1; from memory)
     T = eq.gordon_mcbride_1994(1.0, 298.15, 101325.0, "C3H8")
     assert T == pytest.approx(2267.0, abs=10.0)
 
 
 def test_dissociation_is_small_lean_and_large_at_stoichiometric():
     # the flame without dissociation overshoots by about 100-150 K at phi = 1 and 1 atm, and by
-    # almost nothing at phi = 0.4 (Turns 2012 §2.7, Example 2.5 discussion; from memory)
+    # almost nothing at phi = 0.4 (Turns 2012 ch. 2, equilibrium products; from memory)
     phi = np.array([0.4, 1.0])
     eqT = eq.gordon_mcbride_1994(phi, 298.15, 1e5, "kerosene")
     cc = eq.complete_combustion(phi, 298.15, 1e5, "kerosene")
@@ -273,11 +283,11 @@ def test_fuel_compositions():
     fc = eq.fuel_composition(k)
     assert fc.lhv == pytest.approx(k.lhv, rel=1e-12)
     assert fc.stoich_far == pytest.approx(k.stoich_far, rel=1e-9)
-    # propane C3H8: stoichiometric fuel/air 0.0638 in dry air (Turns 2012 Table 2.?; thermo doctest)
+    # propane C3H8: the same stoichiometric ratio as fuelsys.thermo's (same dry air; a consistency check)
     assert eq.fuel_composition("C3H8").stoich_far == pytest.approx(thermo.stoichiometric_far(8 / 3), rel=1e-9)
     # propane gas LHV 46.35 MJ/kg (Turns 2012, Table B.1; from memory)
     assert eq.fuel_composition("C3H8").lhv == pytest.approx(46.35e6, rel=2e-3)
-    # Jet-A LHV about 43.0-43.3 MJ/kg for the liquid (ASTM D1655 minimum 42.8; common practice)
+    # Jet-A liquid: net heat of combustion at least 42.8 MJ/kg (ASTM D1655, Table 1; from memory)
     assert 42.8e6 < eq.fuel_composition("Jet-A(L)").lhv < 43.5e6
     assert eq.fuel_composition("jet-a(g)").lhv > eq.fuel_composition("Jet-A(L)").lhv  # + latent heat
 
