@@ -271,3 +271,19 @@ def test_component_honours_the_path_variable(tmp_path):
     info.update(source_dir=str(tmp_path / "nowhere"), paths=[])
     out = _run_component(tmp_path, info, {calc_addin.PYTHONPATH_ENV: good})
     assert out["version"] == [[adapt.call("FS_VERSION")]]
+
+
+@pytest.mark.skipif(not generate.find_unoidl_write(), reason="unoidl-write (LibreOffice SDK) is not installed")
+def test_build_command_writes_the_extension(tmp_path, capsys):
+    import argparse
+
+    from fuelsys.sheet.calc_addin import commands
+
+    parser = argparse.ArgumentParser(prog="fuelsys")
+    commands.add_commands(parser.add_subparsers(dest="command"))
+    args = parser.parse_args(["libreoffice", "build", "-o", str(tmp_path / "out" / "fs.oxt")])
+    assert args.func(args) == 0
+    assert zipfile.is_zipfile(tmp_path / "out" / "fs.oxt")
+    assert f"({len(FUNCS)} functions)" in capsys.readouterr().out
+    with pytest.raises(SystemExit):  # an action is required
+        parser.parse_args(["libreoffice"])

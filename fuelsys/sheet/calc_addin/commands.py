@@ -7,6 +7,14 @@ import tempfile
 from pathlib import Path
 
 
+def _warn_python() -> None:
+    from fuelsys.sheet.calc_addin import runner
+
+    warning = runner.python_mismatch()
+    if warning:
+        print(f"warning: {warning}", file=sys.stderr)
+
+
 def _cmd_build(args) -> int:
     from fuelsys.sheet.calc_addin import generate
 
@@ -15,6 +23,7 @@ def _cmd_build(args) -> int:
     except (FileNotFoundError, RuntimeError) as exc:
         print(f"fuelsys libreoffice build: {exc}", file=sys.stderr)
         return 1
+    _warn_python()
     info = generate.build_info()
     print(f"wrote {path} ({len(info['functions'])} functions)")
     print(f"LibreOffice's Python will import fuelsys from {info['source_dir']} and its dependencies from:")
@@ -28,6 +37,7 @@ def _cmd_build(args) -> int:
 def _cmd_install(args) -> int:
     from fuelsys.sheet.calc_addin import generate, runner
 
+    _warn_python()
     try:
         with tempfile.TemporaryDirectory(prefix="fuelsys-oxt-") as tmp:
             oxt = Path(args.oxt) if args.oxt else generate.build_oxt(Path(tmp))

@@ -340,6 +340,7 @@ def build_oxt(dest, funcs=None) -> Path:
     if dest.is_dir() or not dest.suffix:
         dest.mkdir(parents=True, exist_ok=True)
         dest = dest / "fuelsys.oxt"
+    dest.parent.mkdir(parents=True, exist_ok=True)
     members = oxt_members(funcs)
     tmp = dest.with_name(dest.name + ".part")
     with zipfile.ZipFile(tmp, "w", compression=zipfile.ZIP_DEFLATED) as zf:

@@ -80,6 +80,32 @@ def find_uno_python(soffice: str | None = None) -> str | None:
 
 
 @functools.lru_cache(maxsize=None)
+def python_version(python: str) -> tuple:
+    """(major, minor, micro) of a Python executable; () when it cannot be run."""
+    try:
+        res = subprocess.run([python, "-c", "import sys; print(*sys.version_info[:3])"], capture_output=True,
+                             text=True, timeout=60, env=_child_env(python))
+        return tuple(int(x) for x in res.stdout.split())
+    except (OSError, ValueError, subprocess.TimeoutExpired):
+        return ()
+
+
+def python_mismatch() -> str | None:
+    """A warning when LibreOffice's Python has another minor version than this one; else None."""
+    python = find_uno_python()
+    if not python:
+        return None
+    theirs = python_version(python)
+    if theirs and theirs[:2] != tuple(sys.version_info[:2]):
+        return (f"LibreOffice runs Python {'.'.join(map(str, theirs))} ({python}) but this is Python "
+                f"{'.'.join(map(str, sys.version_info[:3]))}: the compiled packages recorded in the extension "
+                f"(numpy, scipy, CoolProp) will not load there. Build it from a Python "
+                f"{theirs[0]}.{theirs[1]} environment, or set FUELSYS_PYTHONPATH for LibreOffice to the "
+                f"site-packages of one.")
+    return None
+
+
+@functools.lru_cache(maxsize=None)
 def soffice_version(soffice: str) -> tuple:
     """(major, minor, ...) from ``soffice --version``; () when it cannot be read."""
     try:
