@@ -61,9 +61,13 @@ Points whose inlet would be near sonic (Mach above :data:`MACH_LIMIT`) or
 whose tube would lose more than half the case pressure are refused: the
 march is a low-speed one.
 
-Structure for tubes of more than one leg (a return bend): the march runs leg
-by leg on a carried state (:class:`_State`), each leg with its own length,
-bore and wall; the straight tube is one leg.
+Shapes: a straight tube is one heated leg; a tube with a return bend
+(``shape="return"``) is two, marched one after the other on a carried state
+(:class:`_State`), each leg with its own length and wall, ``n_steps`` steps
+each.  The bend between them is short and unheated and costs a pressure loss
+by Crane's rule for bends (:func:`crane_return_bend_k`); the entry
+correlations continue through it (no new thermal entry after the bend), and
+positions in the profile run along the heated legs.
 
 References
 ----------
@@ -926,12 +930,18 @@ class _State:
 
 @dataclass
 class _Leg:
-    """One heated leg of a tube: length, bore and wall (given or flame side)."""
+    """One heated leg of a tube: length, bore, wall (given or flame side) and where it starts.
+
+    ``x0`` is the heated length before this leg: the heat-transfer entry
+    correlations continue from it (the flow is not taken to develop anew
+    after a bend); the wall profile of a leg is in the leg's own positions.
+    """
 
     length: np.ndarray
     bore: np.ndarray
     kind: str                  # "uniform", "profile" or "flame"
     wall: object               # (N,) temperatures, (positions, (N, npos) temps) or dict of flame arrays
+    x0: object = 0.0
 
 
 class _Context:
@@ -1007,7 +1017,7 @@ def _flame_wall(Tb, h_in, leg, t_guess):
 def _transfer(ctx, leg, T, pr, x1, x2, wall_guess):
     """Heat transfer of a segment at mixture temperature T.
 
-    Returns UA per length [W/(m K)], T_eq [K], inner wall T [K], heat per length [W/m], Re, Pr.
+    Returns UA per length [W/(m K)], T_eq [K], inner wall T [K], heat per length [W/m], Re, h [W/(m² K)].
     """
     d = leg.bore
     yv, cpg, mu, k = _gas_props(ctx, pr)
@@ -1021,15 +1031,15 @@ def _transfer(ctx, leg, T, pr, x1, x2, wall_guess):
         tw = _wall_at(leg, xm)
     if ctx.inner_htc is None:
         pf = np.where(T < tw, (T / tw) ** 0.45, 1.0)
-        nu = heat._segment_raw(Re, Pr, x1, x2, d, ctx.laminar, pf)
+        nu = heat._segment_raw(Re, Pr, leg.x0 + x1, leg.x0 + x2, d, ctx.laminar, pf)
         h = nu * k / d
     else:
         h = ctx.inner_htc
     if leg.kind == "flame":
         UA, Teq, twi, q = _flame_wall(T, h, leg, wall_guess)
-        return UA, Teq, twi, q, Re, Pr
+        return UA, Teq, twi, q, Re, h
     UA = h * np.pi * d
-    return UA, tw, tw, UA * (tw - T), Re, Pr
+    return UA, tw, tw, UA * (tw - T), Re, h
 
 
 def _flame_side_bound(f, d, L, m_air, t_in):
@@ -1068,13 +1078,17 @@ def _march_leg(ctx, state, leg, n, record):
     v = _specific_volume(ctx, T, P, pr) / mass_per_air
     if record is not None and not record["x"]:
         _, _, twi0, _, Re0, _ = _transfer(ctx, leg, T, pr, np.zeros_like(dx), dx, wall)
-        record["wall0"] = twi0
+        record["x"].append(x0 + 0.0 * dx)
+        record["T"].append(T)
+        record["P"].append(P)
+        record["wall"].append(twi0)
         record["Re"].append(Re0)
+        record["vol"].append(v * mass_per_air)
     for i in range(n):
         x1 = i * dx
         x2 = x1 + dx
         # predictor from the state at the start of the step
-        UA, Teq, twi, q, Re, Pr = _transfer(ctx, leg, T, pr, x1, x2, wall)
+        UA, Teq, twi, _, Re, h = _transfer(ctx, leg, T, pr, x1, x2, wall)
         c0 = np.maximum(slope, 1e-6)
         Hs = H + _exp_step(c0, Teq - T, UA * dx / (ctx.m_air * c0))
         Ts = t.temperature(Hs, P)
@@ -1084,7 +1098,7 @@ def _march_leg(ctx, state, leg, n, record):
         c = np.maximum(c, 1e-6)
         Tm = 0.5 * (T + Ts)
         prm, _ = t.props(Tm, P)
-        UA, Teq, twi, q, Re, Pr = _transfer(ctx, leg, Tm, prm, x1, x2, twi)
+        UA, Teq, twi, _, Re, h = _transfer(ctx, leg, Tm, prm, x1, x2, twi)
         dH = _exp_step(c, Teq - T, UA * dx / (ctx.m_air * c))
         heat_in = heat_in + ctx.m_air * dH  # the wall's heat over the step, by the same exponential profile
         H = H + dH
@@ -1099,9 +1113,14 @@ def _march_leg(ctx, state, leg, n, record):
         P = np.maximum(P - fd * dx / leg.bore * 0.5 * G * G * vm - G * G * (v_new - v), 0.25 * state.P)
         v = v_new
         if record is not None:
+            if leg.kind == "flame":
+                node_wall = _flame_wall(T, h, leg, twi)[2]
+            else:
+                node_wall = _wall_at(leg, x2)
             record["x"].append(x0 + x2)
             record["T"].append(T)
             record["P"].append(P)
+            record["wall"].append(node_wall)
             record["mid_wall"].append(twi)
             record["mid_xv"].append(prm[t.XV])
             record["Re"].append(Re)
@@ -1110,17 +1129,73 @@ def _march_leg(ctx, state, leg, n, record):
     return new, heat_in
 
 
-def _node_walls(ctx, leg, record, n):
-    """Inner-wall temperature at the nodes (n + 1, N)."""
-    x = np.concatenate([[np.zeros(ctx.m_air.size)], np.asarray(record["x"])])
-    if leg.kind != "flame":
-        return np.stack([_wall_at(leg, xi) for xi in x])
-    mid = np.asarray(record["mid_wall"])
-    nodes = np.empty((n + 1, ctx.m_air.size))
-    nodes[0] = record["wall0"]
-    nodes[1:-1] = 0.5 * (mid[:-1] + mid[1:])
-    nodes[-1] = mid[-1] + 0.5 * (mid[-1] - mid[-2]) if n > 1 else mid[-1]
-    return nodes
+def _bend(ctx, state, bore, r_over_d):
+    """Pressure after a 180° return bend between two legs (no heat exchanged in the bend).
+
+    Loss ``K rho u²/2`` on the homogeneous mixture, K by Crane's rule for a
+    bend of n = 2 quarter turns (:func:`crane_return_bend_k`) with the
+    mixture's smooth-tube friction factor standing for Crane's f_T.
+    """
+    t = ctx.tab
+    mass_per_air = 1.0 + ctx.far
+    G = ctx.m_air * mass_per_air / (0.25 * np.pi * bore ** 2)
+    pr, _ = t.props(state.T, state.P)
+    v = _specific_volume(ctx, state.T, state.P, pr) / mass_per_air
+    yv, _, mu, _ = _gas_props(ctx, pr)
+    Re = 4.0 * ctx.m_air * (1.0 + yv) / (np.pi * bore * mu)
+    K = crane_return_bend_k(r_over_d, heat.darcy_friction_smooth(Re), check=False)
+    P = np.maximum(state.P - K * 0.5 * G * G * v, 0.25 * state.P)
+    return _State(H=state.H, T=state.T, P=P, x=state.x, wall=state.wall), K
+
+
+#: Crane TP-410 (2009) A-29: loss coefficient of a 90° bend over the fully turbulent friction factor,
+#: against the bend radius over the bore (from memory)
+CRANE_BEND_R_OVER_D = (1.0, 1.5, 2.0, 3.0, 4.0, 6.0, 8.0, 10.0, 12.0, 14.0, 16.0, 20.0)
+CRANE_BEND_K_OVER_FT = (20.0, 14.0, 12.0, 12.0, 14.0, 17.0, 24.0, 30.0, 34.0, 38.0, 42.0, 50.0)
+#: default bend radius of a return-bend vaporiser, over its bore (our assumption)
+BEND_R_OVER_D = 2.0
+
+
+def crane_return_bend_k(r_over_d, f_t, check=True):
+    """Loss coefficient of a 180° return bend by Crane's rule for bends of n quarter turns.
+
+    ``K_B = (n - 1)(0.25 pi f_T r/d + 0.5 K_1) + K_1`` with n = 2 and
+    ``K_1 = (K/f_T)(r/d) f_T`` the 90° bend of the same radius (Crane's
+    table, interpolated).
+
+    Parameters
+    ----------
+    r_over_d : array_like
+        Bend radius (to the tube axis) over the tube bore, 1..20 [-]
+    f_t : array_like
+        Darcy friction factor standing for Crane's fully turbulent f_T [-]
+    check : bool
+        Issue a ValidityWarning outside the table's radii [-]
+
+    Returns
+    -------
+    float or ndarray
+        Loss coefficient on the velocity head in the tube [-]
+
+    References
+    ----------
+    .. [1] Crane Co., "Flow of Fluids Through Valves, Fittings, and Pipe",
+       Technical Paper 410, 2009, page A-29 (pipe bends; n·90° bends)
+       (values from memory).
+
+    Examples
+    --------
+    >>> round(crane_return_bend_k(2.0, 0.02), 4)
+    0.3914
+    """
+    rd = np.asarray(r_over_d, dtype=float)
+    ft = np.asarray(f_t, dtype=float)
+    if np.any(~np.isfinite(rd)) or np.any(rd <= 0):
+        raise FuelsysInputError(f"bend radius over bore must be > 0 (got {np.ravel(rd)[0]:g})")
+    if check:
+        warn_validity("Crane bend table", "r/d", rd, CRANE_BEND_R_OVER_D[0], CRANE_BEND_R_OVER_D[-1], "-")
+    k1 = np.interp(rd, CRANE_BEND_R_OVER_D, CRANE_BEND_K_OVER_FT) * ft
+    return _out((2 - 1) * (0.25 * np.pi * ft * rd + 0.5 * k1) + k1)
 
 
 # -- droplets --------------------------------------------------------------------
@@ -1224,7 +1299,8 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
               t_fuel_in=298.15, droplet_diameter=None, needle_bore=None, needle_od=None,
               n_steps=N_STEPS, laminar=heat.LAMINAR_DEFAULT, inner_htc=None,
               flame_speed_method=FLAME_SPEED_DEFAULT, coking_limit=COKING_LIMIT,
-              ambient_pressure=P_ATM, check_steps=True, n_table=N_TABLE):
+              ambient_pressure=P_ATM, check_steps=True, n_table=N_TABLE, shape="straight",
+              return_length=None, return_wall=None, bend_radius=None):
     """Vaporiser-tube check: march along the heated length, margins and verdict.
 
     Parameters
@@ -1277,6 +1353,15 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     n_table : tuple of int
         Temperature nodes of the enthalpy tables: up to just above the dew
         point, and from there to the hottest wall [-]
+    shape : str
+        "straight" (one heated leg) or "return" (a second heated leg after
+        a 180° return bend, the outlet facing the front of the combustor) [-]
+    return_length : array_like, optional
+        Heated length of the return leg; default ``heated_length`` [m]
+    return_wall : array_like, WallProfile or FlameSide, optional
+        Wall of the return leg, as ``wall``; default the same as ``wall`` [K]
+    bend_radius : array_like, optional
+        Radius of the return bend to the tube axis; default 2 bores [m]
 
     Returns
     -------
@@ -1351,50 +1436,48 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
                 f"tube bore {np.broadcast_to(d_in, np.broadcast(dn, d_in).shape).flat[i] * 1e3:g} mm is not larger "
                 f"than the needle outside diameter {np.broadcast_to(dn, np.broadcast(dn, d_in).shape).flat[i] * 1e3:g}"
                 " mm; the needle must fit inside the tube")
+    if shape not in ("straight", "return"):
+        raise FuelsysInputError(f"shape must be straight or return (got {shape!r})")
+    legs_in = [(L_in, wall)]
+    if shape == "return":
+        L2_in = L_in if return_length is None else np.asarray(return_length, dtype=float)
+        if np.any(~np.isfinite(L2_in)) or np.any(L2_in <= 0):
+            bad = L2_in[~(np.isfinite(L2_in) & (L2_in > 0))].flat[0]
+            raise FuelsysInputError(f"return length must be > 0 (got {bad * 1e3:g} mm)")
+        legs_in.append((L2_in, wall if return_wall is None else return_wall))
+        rd_in = BEND_R_OVER_D * d_in if bend_radius is None else _require_positive(
+            "bend radius", bend_radius, 1e3, "mm")
+    elif return_length is not None or return_wall is not None or bend_radius is not None:
+        raise FuelsysInputError("return_length, return_wall and bend_radius belong to shape='return'")
     extras = [a for a in (droplet_diameter, needle_bore, inner_htc) if a is not None]
-    if isinstance(wall, WallProfile):
-        wall_shape = np.shape(wall.temperature)[:-1]
-        kind = "profile"
-    elif isinstance(wall, FlameSide):
-        wall_shape = np.broadcast(*[np.asarray(getattr(wall, f), dtype=float) for f in
-                                    ("gas_temperature", "h_out", "emissivity_gas", "emissivity_wall",
-                                     "thickness", "conductivity")]).shape
-        kind = "flame"
-    else:
-        wall_shape = np.shape(wall)
-        kind = "uniform"
-        _require_positive("wall temperature", wall, 1.0, "K")
-    shape = np.broadcast_shapes(np.shape(d_in), np.shape(L_in), np.shape(ma_in), np.shape(mf_in),
-                                np.shape(p_in), np.shape(ta_in), np.shape(tf_in), wall_shape,
-                                *[np.shape(a) for a in extras])
-    N = int(np.prod(shape)) if shape else 1
-    d, L, m_air, m_liq, P0, Ta, Tfuel = _as_points(shape, d_in, L_in, ma_in, mf_in, p_in, ta_in, tf_in)
-    if kind == "uniform":
-        wall_data = _as_points(shape, wall)[0]
-        t_wall_min, t_wall_max = wall_data, wall_data
-    elif kind == "profile":
-        temps = np.broadcast_to(np.asarray(wall.temperature, dtype=float), shape + (np.size(wall.position),))
-        temps = temps.reshape(N, -1).copy()
-        wall_data = (np.asarray(wall.position, dtype=float), temps)
-        t_wall_min, t_wall_max = temps.min(axis=1), temps.max(axis=1)
-    else:
-        names = ("gas_temperature", "h_out", "emissivity_gas", "emissivity_wall", "thickness", "conductivity")
-        wall_data = dict(zip(names, _as_points(shape, *[getattr(wall, nm) for nm in names])))
-        t_wall_min = np.minimum(Ta, wall_data["gas_temperature"])
-        t_wall_max = np.maximum(Ta, np.minimum(wall_data["gas_temperature"], _flame_side_bound(
-            wall_data, d, L, m_air, np.maximum(Ta, Tfuel))))
+    if shape == "return":
+        extras += [legs_in[1][0], rd_in]
+    wall_shapes = [_wall_shape(w) for _, w in legs_in]
+    out_shape = np.broadcast_shapes(np.shape(d_in), np.shape(L_in), np.shape(ma_in), np.shape(mf_in),
+                                    np.shape(p_in), np.shape(ta_in), np.shape(tf_in), *wall_shapes,
+                                    *[np.shape(a) for a in extras])
+    N = int(np.prod(out_shape)) if out_shape else 1
+    d, m_air, m_liq, P0, Ta, Tfuel = _as_points(out_shape, d_in, ma_in, mf_in, p_in, ta_in, tf_in)
+    legs = []
+    for length, w in legs_in:
+        kind, data = _wall_points(w, out_shape, N)
+        legs.append({"length": _as_points(out_shape, length)[0], "kind": kind, "wall": data})
+    bend_rd = _as_points(out_shape, rd_in)[0] / d if shape == "return" else None
+    if bend_rd is not None:
+        warn_validity("Crane bend table", "bend radius / bore", bend_rd, CRANE_BEND_R_OVER_D[0],
+                      CRANE_BEND_R_OVER_D[-1], "-")
     if inner_htc is not None:
-        inner = _as_points(shape, _require_positive("inner heat-transfer coefficient", inner_htc, 1.0, "W/(m² K)"))[0]
+        inner = _as_points(out_shape, _require_positive("inner heat-transfer coefficient", inner_htc, 1.0, "W/(m² K)"))[0]
     else:
         inner = None
 
     D_given = None if droplet_diameter is None else _as_points(
-        shape, _require_positive("droplet diameter", droplet_diameter, 1e6, "µm"))[0]
-    NB = None if needle_bore is None else _as_points(shape, _require_positive("needle bore", needle_bore, 1e3, "mm"))[0]
+        out_shape, _require_positive("droplet diameter", droplet_diameter, 1e6, "µm"))[0]
+    NB = None if needle_bore is None else _as_points(out_shape, _require_positive("needle bore", needle_bore, 1e3, "mm"))[0]
     n_table = tuple(int(n) for n in n_table)
     if len(n_table) != 2 or n_table[0] < 4 or n_table[1] < 2:
         raise FuelsysInputError(f"n_table must be (>= 4, >= 2) nodes (got {n_table})")
-    args = [fuel, d, L, m_air, m_liq, P0, Ta, Tfuel, kind, wall_data, t_wall_min, t_wall_max, inner, D_given, NB,
+    args = [fuel, d, legs, bend_rd, m_air, m_liq, P0, Ta, Tfuel, inner, D_given, NB,
             n_steps, n_table, laminar, flame_speed_method, coking_limit, ambient_pressure, check_steps]
     res = _solve(*args)
     # where the tube's pressure drop moves the equilibrium enough to show in the energy balance, march
@@ -1402,7 +1485,7 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     redo = np.flatnonzero((np.abs(res["energy_error"]) > 0.5 * ENERGY_TOLERANCE)
                           & (res["pressure_drop"] > 1e-3 * P0) & (m_liq > 0))
     if redo.size:
-        sub = [_take(a, redo) for a in args[:13]] + [_take(a, redo) for a in args[13:15]] + args[15:]
+        sub = [fuel] + [_take(a, redo) for a in args[1:12]] + args[12:]
         p_exit = P0[redo] - res["pressure_drop"][redo]
         again = _solve(*sub, p_second=np.minimum(p_exit, P0[redo] * (1.0 - 1e-3)))
         better = np.abs(again["energy_error"]) < np.abs(res["energy_error"][redo])
@@ -1413,23 +1496,48 @@ def vaporiser(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, wall
     def out(a):
         a = np.asarray(a)
         if a.dtype == bool:
-            return bool(a.reshape(shape)) if shape == () else a.reshape(shape)
-        return _out(a.reshape(shape))
+            return bool(a.reshape(out_shape)) if out_shape == () else a.reshape(out_shape)
+        return _out(a.reshape(out_shape))
 
     def out_text(items):
-        if shape == ():
+        if out_shape == ():
             return items[0]
-        return np.array(items, dtype=object).reshape(shape)
+        return np.array(items, dtype=object).reshape(out_shape)
 
-    profile = {key: val.reshape((n_steps + 1,) + shape) for key, val in res.pop("profile").items()}
+    profile = {key: val.reshape(val.shape[:1] + out_shape) for key, val in res.pop("profile").items()}
     texts = {key: out_text(res.pop(key)) for key in ("verdict", "validity")}
     return VaporiserResult(**{key: out(val) for key, val in res.items()}, **texts, profile=profile)
 
 
+def _wall_shape(wall):
+    """Operating-point shape of a wall description."""
+    if isinstance(wall, WallProfile):
+        return np.shape(wall.temperature)[:-1]
+    if isinstance(wall, FlameSide):
+        return np.broadcast(*[np.asarray(getattr(wall, f), dtype=float) for f in _FLAME_FIELDS]).shape
+    _require_positive("wall temperature", wall, 1.0, "K")
+    return np.shape(wall)
+
+
+_FLAME_FIELDS = ("gas_temperature", "h_out", "emissivity_gas", "emissivity_wall", "thickness", "conductivity")
+
+
+def _wall_points(wall, shape, N):
+    """(kind, per-point data) of a wall description broadcast to the operating points."""
+    if isinstance(wall, WallProfile):
+        temps = np.broadcast_to(np.asarray(wall.temperature, dtype=float), shape + (np.size(wall.position),))
+        return "profile", (np.asarray(wall.position, dtype=float), temps.reshape(N, -1).copy())
+    if isinstance(wall, FlameSide):
+        return "flame", dict(zip(_FLAME_FIELDS, _as_points(shape, *[getattr(wall, f) for f in _FLAME_FIELDS])))
+    return "uniform", _as_points(shape, wall)[0]
+
+
 def _take(a, idx):
-    """Entries ``idx`` of a per-point input (array, profile tuple or flame-side dict); others unchanged."""
+    """Entries ``idx`` of a per-point input (array, profile tuple, flame-side dict, legs); others unchanged."""
     if a is None or isinstance(a, str):
         return a
+    if isinstance(a, list):
+        return [{"length": leg["length"][idx], "kind": leg["kind"], "wall": _take(leg["wall"], idx)} for leg in a]
     if isinstance(a, tuple):
         return (a[0], a[1][idx])
     if isinstance(a, dict):
@@ -1452,9 +1560,8 @@ def _merge(res, part, into, source):
             res[key][into] = np.asarray(val)[source]
 
 
-def _solve(fuel, d, L, m_air, m_liq, P0, Ta, Tfuel, kind, wall_data, t_wall_min, t_wall_max, inner, D_given,
-           NB, n_steps, n_table, laminar, flame_speed_method, coking_limit, ambient_pressure, check_steps,
-           p_second=None):
+def _solve(fuel, d, legs, bend_rd, m_air, m_liq, P0, Ta, Tfuel, inner, D_given, NB, n_steps, n_table, laminar,
+           flame_speed_method, coking_limit, ambient_pressure, check_steps, p_second=None):
     """The march and its margins on flat arrays of N points; returns a dict of flat results.
 
     ``p_second`` (N,) adds flash tables at a second pressure, interpolated in
@@ -1462,6 +1569,19 @@ def _solve(fuel, d, L, m_air, m_liq, P0, Ta, Tfuel, kind, wall_data, t_wall_min,
     equilibrium enough to show in the energy balance).
     """
     N = d.size
+    L = sum(leg["length"] for leg in legs)
+    t_wall_min, t_wall_max = np.full(N, np.inf), np.full(N, -np.inf)
+    for leg in legs:
+        if leg["kind"] == "uniform":
+            lo = hi = leg["wall"]
+        elif leg["kind"] == "profile":
+            lo, hi = leg["wall"][1].min(axis=1), leg["wall"][1].max(axis=1)
+        else:
+            f = leg["wall"]
+            lo = np.minimum(Ta, f["gas_temperature"])
+            hi = np.maximum(Ta, np.minimum(f["gas_temperature"], _flame_side_bound(f, d, L, m_air,
+                                                                                   np.maximum(Ta, Tfuel))))
+        t_wall_min, t_wall_max = np.minimum(t_wall_min, lo), np.maximum(t_wall_max, hi)
     # ---- fuel, flows and tables ---------------------------------------------------
     oil_w = _oil_share(fuel)
     volatile = 1.0 - oil_w
@@ -1503,23 +1623,34 @@ def _solve(fuel, d, L, m_air, m_liq, P0, Ta, Tfuel, kind, wall_data, t_wall_min,
     T_mix = tables.temperature(H_in, P0)
     P_start = P0.copy()
 
-    if kind == "uniform":
-        leg = _Leg(length=L, bore=d, kind="uniform", wall=wall_data)
-        wall0 = wall_data
-    elif kind == "profile":
-        leg = _Leg(length=L, bore=d, kind="profile", wall=wall_data)
-        wall0 = _wall_at(leg, np.zeros(N))
+    march_legs, x0 = [], np.zeros(N)
+    for spec in legs:
+        march_legs.append(_Leg(length=spec["length"], bore=d, kind=spec["kind"], wall=spec["wall"], x0=x0))
+        x0 = x0 + spec["length"]
+    first = march_legs[0]
+    if first.kind == "flame":
+        wall0 = 0.5 * (T_mix + first.wall["gas_temperature"])
     else:
-        leg = _Leg(length=L, bore=d, kind="flame", wall=wall_data)
-        wall0 = 0.5 * (T_mix + wall_data["gas_temperature"])
+        wall0 = _wall_at(first, np.zeros(N))
 
-    record = {"x": [], "T": [], "P": [], "mid_wall": [], "mid_xv": [], "Re": [], "vol": []}
-    state0 = _State(H=H_in, T=T_mix, P=P_start, x=np.zeros(N), wall=wall0)
+    def march(n, record):
+        state = _State(H=H_in, T=T_mix, P=P_start, x=np.zeros(N), wall=wall0)
+        heat_total = np.zeros(N)
+        for k, leg in enumerate(march_legs):
+            if k:
+                state, _ = _bend(ctx, state, d, bend_rd)
+                if leg.kind == "flame":
+                    state.wall = 0.5 * (state.T + leg.wall["gas_temperature"])
+            state, q = _march_leg(ctx, state, leg, n, record)
+            heat_total = heat_total + q
+        return state, heat_total
+
+    record = {"x": [], "T": [], "P": [], "wall": [], "mid_wall": [], "mid_xv": [], "Re": [], "vol": []}
     with warnings.catch_warnings():
         warnings.simplefilter("ignore", ValidityWarning)
-        state, q_in = _march_leg(ctx, state0, leg, n_steps, record)
+        state, q_in = march(n_steps, record)
         if check_steps:
-            coarse, _ = _march_leg(ctx, state0, leg, n_steps // 2, None)
+            coarse, _ = march(n_steps // 2, None)
     T_exit, P_exit = state.T, state.P
     if np.any(P_exit < 0.5 * P0):
         i = int(np.argmin(P_exit / P0))
@@ -1581,15 +1712,15 @@ def _solve(fuel, d, L, m_air, m_liq, P0, Ta, Tfuel, kind, wall_data, t_wall_min,
         err_x = np.full(N, np.nan)
 
     # ---- profile -----------------------------------------------------------------
-    x_nodes = np.concatenate([np.zeros((1, N)), np.asarray(record["x"])])
-    T_nodes = np.concatenate([T_mix[None, :], np.asarray(record["T"])])
-    P_nodes = np.concatenate([P_start[None, :], np.asarray(record["P"])])
-    pr_nodes = np.stack([tables.props(Ti, Pi)[0] for Ti, Pi in zip(T_nodes, P_nodes)], axis=1)  # (K, n+1, N)
+    x_nodes = np.asarray(record["x"])
+    T_nodes = np.asarray(record["T"])
+    P_nodes = np.asarray(record["P"])
+    pr_nodes = np.stack([tables.props(Ti, Pi)[0] for Ti, Pi in zip(T_nodes, P_nodes)], axis=1)  # (K, nodes, N)
     xv_nodes = pr_nodes[tables.XV]
     xv_nodes[-1] = xv_exit
-    wall_nodes = _node_walls(ctx, leg, record, n_steps)
-    vol0 = _specific_volume(ctx, T_mix, P_start, tables.props(T_mix, P_start)[0])
-    vol_nodes = np.concatenate([vol0[None, :], np.asarray(record["vol"])])
+    wall_nodes = np.asarray(record["wall"])
+    vol_nodes = np.asarray(record["vol"])
+    n_total = x_nodes.shape[0] - 1
     area = 0.25 * np.pi * d * d
     u_nodes = m_air * vol_nodes / area
     dt = 0.5 * (1.0 / u_nodes[1:] + 1.0 / u_nodes[:-1]) * np.diff(x_nodes, axis=0)
@@ -1635,7 +1766,7 @@ def _solve(fuel, d, L, m_air, m_liq, P0, Ta, Tfuel, kind, wall_data, t_wall_min,
     D2 = np.empty_like(T_nodes)
     D2[0] = D0 * D0
     life = np.full(N, np.inf)
-    for k in range(n_steps):
+    for k in range(n_total):
         drop = 0.5 * (K_nodes[k] + K_nodes[k + 1]) * dt[k]
         nxt = D2[k] - drop
         gone = (nxt <= 0) & ~np.isfinite(life)
@@ -1683,7 +1814,7 @@ def _solve(fuel, d, L, m_air, m_liq, P0, Ta, Tfuel, kind, wall_data, t_wall_min,
     Re_all = Re_nodes
     if inner is None:
         pr_all = pr_nodes
-        yv_all, cpg_all, mu_all, k_all = _gas_props(ctx, pr_all)
+        _, cpg_all, mu_all, k_all = _gas_props(ctx, pr_all)
         Pr_all = cpg_all * mu_all / k_all
         _flag(flags, np.any((Pr_all < 0.5) | (Pr_all > 2000), axis=0), "Prandtl number outside 0.5..2000")
         turb = Re_all > heat.RE_TURBULENT

@@ -478,3 +478,46 @@ def test_validity_flags_and_warnings(kero):
     # too few steps for a long, hot, slow tube: the step-doubling estimate says so
     r = vap.vaporiser(BORE, 1.0, 0.05e-3, 0.2e-3, 1.5e5, 400.0, 900.0, kero, n_steps=4)
     assert r.step_error_temperature > vap.STEP_TOLERANCE_K and "march not converged" in r.validity
+
+
+# -- return bend (two heated legs) ---------------------------------------------------------------------
+
+def test_return_bend_is_the_straight_march_plus_the_bend_loss(kero):
+    # the return leg continues the same march (entry correlations continue, no heat in the bend), so a
+    # fully vaporised mixture leaves as from a straight tube of both lengths; the bend adds K rho u^2 / 2
+    n = vap.N_STEPS
+    a = vap.vaporiser(BORE, 0.3, 0.6e-3, 3e-3, 3e5, 450.0, 800.0, kero, n_steps=2 * n)
+    b = vap.vaporiser(BORE, 0.15, 0.6e-3, 3e-3, 3e5, 450.0, 800.0, kero, shape="return")
+    assert b.vapour_fraction == 1.0
+    assert b.exit_temperature == pytest.approx(a.exit_temperature, abs=1e-9)
+    assert b.profile["position"].shape == (2 * n + 1,) and b.profile["position"][-1] == pytest.approx(0.3)
+    # Crane TP-410 (2009) A-29 rule for a bend of two quarter turns, r/d = 2 (from memory), on the tube's
+    # smooth-tube friction factor at the bend; velocity head of the homogeneous mixture there
+    t_bend = b.profile["gas_temperature"][n]
+    re = 4 * 3e-3 * (1 + 0.2) / (math.pi * BORE * heat.sutherland_viscosity_air(t_bend))
+    K = vap.crane_return_bend_k(2.0, heat.darcy_friction_smooth(re))
+    G = 3e-3 * (1 + 0.2) / (0.25 * math.pi * BORE ** 2)
+    dp_bend = K * 0.5 * G * b.profile["velocity"][n]
+    assert b.pressure_drop - a.pressure_drop == pytest.approx(dp_bend, rel=0.03)
+
+
+def test_return_leg_with_its_own_wall(kero):
+    base = vap.vaporiser(BORE, 0.15, 0.6e-3, 3e-3, 3e5, 450.0, 650.0, kero, shape="return")
+    hot = vap.vaporiser(BORE, 0.15, 0.6e-3, 3e-3, 3e5, 450.0, 650.0, kero, shape="return",
+                        return_wall=vap.FlameSide(1600.0, 150.0, 0.2), return_length=0.1)
+    assert hot.exit_temperature > base.exit_temperature
+    w = hot.profile["wall_temperature"]
+    assert np.all(w[: vap.N_STEPS + 1] == 650.0) and np.all(w[vap.N_STEPS + 1:] > 650.0)
+    assert hot.profile["position"][-1] == pytest.approx(0.25)
+    assert abs(hot.energy_error) <= 0.005
+
+
+def test_crane_return_bend_rule():
+    # Crane TP-410 (2009) A-29 (from memory): K_90 = 14 f_T at r/d = 1.5; K_B = (n-1)(0.25 pi f_T r/d + 0.5 K_90)
+    # + K_90 for n = 2 quarter turns
+    ft = 0.02
+    assert vap.crane_return_bend_k(1.5, ft) == pytest.approx(0.25 * math.pi * ft * 1.5 + 1.5 * 14 * ft, rel=1e-12)
+    with pytest.raises(FuelsysInputError, match="shape must be straight or return"):
+        vap.vaporiser(BORE, LENGTH, 0.5e-3, 3e-3, P3, T3, 800.0, get_fuel("kerosene"), shape="bent")
+    with pytest.raises(FuelsysInputError, match="belong to shape='return'"):
+        vap.vaporiser(BORE, LENGTH, 0.5e-3, 3e-3, P3, T3, 800.0, get_fuel("kerosene"), return_length=0.1)

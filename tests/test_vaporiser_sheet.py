@@ -115,3 +115,13 @@ def test_cold_wall_is_a_verdict_not_an_error():
     out = call("FS_VAPORISER", 6, 150, 180, 2, 2, 150, 80, "kerosene", 0, "verdict")
     assert not is_error(out)
     assert out.startswith("poor") and "no hotter than the inlet air" in out
+
+
+def test_return_shape_option():
+    straight = call("FS_VAPORISER", *ARGS, 0, "dp_mbar")
+    bent = call("FS_VAPORISER", *ARGS, 0, "dp_mbar", "return")
+    assert bent > 2 * straight  # two legs plus the bend
+    rows = call("FS_VAPORISER_PROFILE", *ARGS, 0, 5, "return")
+    assert rows[-1][0] == pytest.approx(300.0)
+    out = call("FS_VAPORISER", *ARGS, 0, None, "bent")
+    assert is_error(out) and "shape must be one of straight, return" in out

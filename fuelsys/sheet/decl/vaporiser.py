@@ -32,12 +32,15 @@ _T3 = Arg("t3_c", "number", "°C", "compressor exit air temperature", gt=-273.15
 _WALL = Arg("wall_c", "number", "°C", "inner wall temperature of the tube (uniform)", gt=-273.15)
 _FUEL = Arg("fuel", "fuel", "-", "built-in fuel name (kerosene, ...) or a fuel table range")
 _OIL = Arg("oil_pct", "number", "% vol", "turbine oil mixed into the fuel", default=0.0, low=0, high=20)
+_SHAPE = Arg("shape", "text", "-", "straight, or return: a second heated leg of the same length and wall after "
+             "a 180° bend (radius 2 bores)", default="straight", choices=("straight", "return"))
 
 _SOURCE = ("axial march of the air-fuel mixture's enthalpy with equilibrium evaporation from the fuel "
            "model's flash (air inert); wall heat by Gnielinski (1976) turbulent / Stephan (1959) laminar "
            "entry, blended over Re 2300-1e4 (Gnielinski 1995); droplets by the d2-law with the Spalding "
            "(1953) transfer number (Turns 3rd ed. ch. 3); laminar flame speed Gulder (1984), flammability "
-           "limits Zabetakis (1965); coking limit 260 °C, the ASTM D3241 JFTOT temperature")
+           "limits Zabetakis (1965); coking limit 260 °C, the ASTM D3241 JFTOT temperature; return bend loss "
+           "by Crane TP-410 (2009) A-29")
 
 #: the items of FS_VAPORISER in table order, each with its unit (the unit is also in the name)
 _ITEMS = {
@@ -103,7 +106,7 @@ def _item_values(r) -> dict:
     }
 
 
-def _run(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel, oil_pct):
+def _run(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel, oil_pct, shape):
     from fuelsys import vaporiser as vap
 
     if not (math.isfinite(float(getattr(fuel, "stoich_far", math.nan)))
@@ -114,7 +117,7 @@ def _run(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c
     with warnings.catch_warnings():
         warnings.simplefilter("ignore", ValidityWarning)
         return vap.vaporiser(tube_bore_mm * 1e-3, heated_length_mm * 1e-3, fuel_g_min * _G_MIN, air_g_s * _G_S,
-                             case_bar_abs * _BAR, t3_c + T0_C, wall_c + T0_C, fuel)
+                             case_bar_abs * _BAR, t3_c + T0_C, wall_c + T0_C, fuel, shape=shape)
 
 
 @spreadsheet_function(
@@ -165,12 +168,12 @@ def fs_tube_air(tube_bore_mm, liner_dp_pct, case_bar_abs, t3_c, cd):
     summary="Vaporiser tube check: vaporised fuel, dew-point, droplet, flashback and coking margins, verdict",
     args=[_BORE, _LENGTH, _FUEL_FLOW, _AIR, _CASE, _T3, _WALL, _FUEL, _OIL,
           Arg("item", "text", "-", "one result by name; empty for the whole table", default="",
-              choices=tuple(_ITEMS))],
+              choices=tuple(_ITEMS)), _SHAPE],
     returns=Returns("table", "-", "two columns: item name (unit in the name) and value; or the one item asked for"),
     source=_SOURCE,
 )
 def fs_vaporiser(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel, oil_pct,
-                 item):
+                 item, shape):
     """Vaporiser check as a labelled table, or one item of it.
 
     Parameters
@@ -195,6 +198,8 @@ def fs_vaporiser(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_a
         Turbine oil in the fuel [% vol]
     item : str
         Item name, or "" for the table [-]
+    shape : str
+        "straight" or "return" [-]
 
     Returns
     -------
@@ -205,7 +210,7 @@ def fs_vaporiser(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_a
     ----------
     :func:`fuelsys.vaporiser.vaporiser`.
     """
-    r = _run(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel, oil_pct)
+    r = _run(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel, oil_pct, shape)
     values = _item_values(r)
     if item:
         return [[values[item]]]
@@ -217,13 +222,13 @@ def fs_vaporiser(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_a
     summary="Gas and wall temperature, vaporised fuel and velocity along a vaporiser tube, for a chart",
     args=[_BORE, _LENGTH, _FUEL_FLOW, _AIR, _CASE, _T3, _WALL, _FUEL, _OIL,
           Arg("points", "number", "-", "rows of the table after its header", default=11, low=2, high=201,
-              integer=True)],
-    returns=Returns("table", "-", "header row, then rows of position mm, gas °C, wall °C, vaporised %, "
-                                  "velocity m/s"),
+              integer=True), _SHAPE],
+    returns=Returns("table", "-", "header row, then rows of position mm (along the heated legs), gas °C, "
+                                  "wall °C, vaporised %, velocity m/s"),
     source=_SOURCE,
 )
 def fs_vaporiser_profile(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel,
-                         oil_pct, points):
+                         oil_pct, points, shape):
     """Profile along the tube, linearly interpolated from the march's nodes.
 
     Parameters
@@ -248,17 +253,19 @@ def fs_vaporiser_profile(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, ca
         Turbine oil in the fuel [% vol]
     points : float
         Number of rows [-]
+    shape : str
+        "straight" or "return" [-]
 
     Returns
     -------
     list
-        Header row and one row per position [-]
+        Header row and one row per position along the heated legs [-]
 
     References
     ----------
     :func:`fuelsys.vaporiser.vaporiser` (profile).
     """
-    r = _run(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel, oil_pct)
+    r = _run(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel, oil_pct, shape)
     p = r.profile
     x = p["position"]
     at = np.linspace(0.0, x[-1], int(points))
