@@ -14,7 +14,7 @@ against openpyxl's own formula Translator.
 
 import openpyxl
 import pytest
-from openpyxl.formula.translate import Translator
+from openpyxl.formula.translate import Translator, TranslatorError
 from openpyxl.workbook.defined_name import DefinedName
 from openpyxl.worksheet.formula import ArrayFormula
 
@@ -331,3 +331,61 @@ def test_at_operator_is_implicit_intersection(tmp_path):
     got = ev.evaluate_workbook(path)
     assert got[("S", "B2")] == 40.0
     assert got[("S", "C1")] == 1.0  # row 1 of A1:A3
+
+
+# ---------------------------------------------------------------------------
+# the parse cache for filled formulas agrees with a fresh parse, always
+
+from hypothesis import given, settings  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+
+def _ref_text(draw):
+    col = draw(st.integers(1, 60))
+    row = draw(st.integers(1, 400))
+    letters = ev.col_letters(col)
+    return f"{'$' if draw(st.booleans()) else ''}{letters}{'$' if draw(st.booleans()) else ''}{row}"
+
+
+@st.composite
+def formulas(draw, depth=0):
+    leaves = [
+        lambda: _ref_text(draw),
+        lambda: f"{_ref_text(draw)}:{_ref_text(draw)}",
+        lambda: f"'My A1 sheet'!{_ref_text(draw)}",
+        lambda: f"Data1!{_ref_text(draw)}",
+        lambda: str(draw(st.integers(0, 99))),
+        lambda: '"B7 text ""A1"""',
+        lambda: "Rate2",
+        lambda: "A:A" if draw(st.booleans()) else "$3:$3",
+    ]
+    if depth >= 3 or draw(st.integers(0, 2)) == 0:
+        return leaves[draw(st.integers(0, len(leaves) - 1))]()
+    kind = draw(st.integers(0, 3))
+    a, b = draw(formulas(depth + 1)), draw(formulas(depth + 1))
+    if kind == 0:
+        return f"{a}{draw(st.sampled_from(['+', '-', '*', '/', '&', '^', '<=']))}{b}"
+    if kind == 1:
+        return f"SUM({a},{b})"
+    if kind == 2:
+        return f"LOG10({a})+IF({a}>{b},{b},-{a})"
+    return f"({a})"
+
+
+@settings(max_examples=300, deadline=None)
+@given(text=formulas(), host=st.tuples(st.integers(1, 50), st.integers(1, 30)),
+       move=st.tuples(st.integers(-20, 20), st.integers(-10, 10)))
+def test_template_cache_matches_a_fresh_parse(text, host, move):
+    r, c = host
+    r2, c2 = r + move[0], c + move[1]
+    if r2 < 1 or c2 < 1:
+        return
+    try:
+        moved = Translator("=" + text, origin=ev.cell_name(r, c)).translate_formula(ev.cell_name(r2, c2))
+    except TranslatorError:  # a reference moved off the sheet
+        return
+    cache = ev._Templates()
+    assert cache.tree(text, r, c) == ev.parse(text)
+    assert cache.tree(moved[1:], r2, c2) == ev.parse(moved[1:]), (text, moved)
+    # a shared formula's later cells are its first cell's tree, moved the same way
+    assert ev.shift(ev.parse(text), r2 - r, c2 - c) == ev.parse(moved[1:]), (text, moved)

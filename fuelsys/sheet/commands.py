@@ -253,7 +253,7 @@ def _recalc_libreoffice(args) -> int:
                                dir=os.path.dirname(target))
     os.close(fd)
     try:
-        recalc_book(args.book, tmp)
+        info = recalc_book(args.book, tmp)
         if not os.path.exists(tmp) or os.path.getsize(tmp) == 0:
             raise RuntimeError("LibreOffice wrote no workbook")
         os.replace(tmp, target)
@@ -265,7 +265,11 @@ def _recalc_libreoffice(args) -> int:
         _err(f"fuelsys recalc: LibreOffice could not compute the workbook; nothing written ({exc})")
         return 2
     _err("note: LibreOffice saves the whole workbook again (the built-in engine changes only the values)")
-    print(f"{os.path.basename(args.book)}: computed by LibreOffice in {time.perf_counter() - t0:.2f} s; "
+    detail = ""
+    if isinstance(info, dict) and "formulas" in info:
+        detail = (f" {info.get('libreoffice', '')}: {info['formulas']} formula cells, "
+                  f"{info.get('errors', 0)} error values, {info.get('fs_errors', 0)} FS error texts;").replace("  ", " ")
+    print(f"{os.path.basename(args.book)}: computed by LibreOffice{detail} {time.perf_counter() - t0:.2f} s; "
           f"written to {target}")
     return 0
 

@@ -570,6 +570,11 @@ def shift(node, dr: int, dc: int):
             c2 = c2 if ca2 else c2 + dc
             if not (1 <= c1 <= MAX_COL and 1 <= c2 <= MAX_COL):
                 return ("err", "#REF!")
+        # a moved range may have its corners the other way round (A1:A$1 one row down is A$1:A2)
+        if r1 is not None and r1 > r2:
+            r1, r2, ra1, ra2 = r2, r1, ra2, ra1
+        if c1 is not None and c1 > c2:
+            c1, c2, ca1, ca2 = c2, c1, ca2, ca1
         return ("area", sh, r1, c1, r2, c2, ra1, ca1, ra2, ca2)
     if kind == "bin":
         return ("bin", node[1], shift(node[2], dr, dc), shift(node[3], dr, dc))
@@ -704,7 +709,7 @@ class _Compiler:
             si = self._sheet(sh)
             if si is None:
                 return _const(bi.REF)
-            key = self.e.find_name(name, si, qualified=True)
+            key = self.e.find_name(name, si)
         else:
             key = self.e.find_name(name, self.si if not self.e.no_book else None)
         if key is None:
@@ -994,7 +999,8 @@ class Engine:
             self._names[(dn.scope, dn.name.upper())] = dn.text
 
     # -- defined names ------------------------------------------------------
-    def find_name(self, name, si, qualified=False):
+    def find_name(self, name, si):
+        """The key of defined name ``name`` as seen from sheet ``si``: its own sheet-level name first."""
         if si is not None and (si, name) in self._names:
             return (si, name)
         if (None, name) in self._names:
