@@ -214,6 +214,17 @@ def _tokens(text: str):
     return clean
 
 
+def _area_node(sheet, r1, c1, r2, c2, ra1, ca1, ra2, ca2):
+    """A range node with its corners in a canonical order: top-left first (a range is the
+    rectangle its corners span, so B2:A1 is A1:B2); equal rows or columns put the
+    relative one first, so a moved range compares equal to the same range typed."""
+    if r1 is not None and (r1, ra1) > (r2, ra2):
+        r1, r2, ra1, ra2 = r2, r1, ra2, ra1
+    if c1 is not None and (c1, ca1) > (c2, ca2):
+        c1, c2, ca1, ca2 = c2, c1, ca2, ca1
+    return ("area", sheet, r1, c1, r2, c2, ra1, ca1, ra2, ca2)
+
+
 def _ref_node(text: str):
     """An operand of the RANGE kind -> a reference, name or error node."""
     raw = text
@@ -257,31 +268,20 @@ def _ref_node(text: str):
             r2, c2 = int(mb.group(4)), col_number(mb.group(2))
             if not (1 <= r1 <= MAX_ROW and 1 <= r2 <= MAX_ROW and 1 <= c1 <= MAX_COL and 1 <= c2 <= MAX_COL):
                 raise FormulaSyntaxError(f"reference {raw} lies outside the sheet")
-            f1 = (bool(ma.group(3)), bool(ma.group(1)))
-            f2 = (bool(mb.group(3)), bool(mb.group(1)))
-            if r1 > r2:
-                r1, r2, f1, f2 = r2, r1, (f2[0], f1[1]), (f1[0], f2[1])
-            if c1 > c2:
-                c1, c2, f1, f2 = c2, c1, (f1[0], f2[1]), (f2[0], f1[1])
-            return ("area", sheet, r1, c1, r2, c2, f1[0], f1[1], f2[0], f2[1])
+            return _area_node(sheet, r1, c1, r2, c2, bool(ma.group(3)), bool(ma.group(1)),
+                              bool(mb.group(3)), bool(mb.group(1)))
         ma, mb = _COL_RE.match(a), _COL_RE.match(b)
         if ma and mb:
             c1, c2 = col_number(ma.group(2)), col_number(mb.group(2))
             if not (1 <= c1 <= MAX_COL and 1 <= c2 <= MAX_COL):
                 raise FormulaSyntaxError(f"reference {raw} lies outside the sheet")
-            a1, a2 = bool(ma.group(1)), bool(mb.group(1))
-            if c1 > c2:
-                c1, c2, a1, a2 = c2, c1, a2, a1
-            return ("area", sheet, None, c1, None, c2, True, a1, True, a2)
+            return _area_node(sheet, None, c1, None, c2, True, bool(ma.group(1)), True, bool(mb.group(1)))
         ma, mb = _ROW_RE.match(a), _ROW_RE.match(b)
         if ma and mb:
             r1, r2 = int(ma.group(2)), int(mb.group(2))
             if not (1 <= r1 <= MAX_ROW and 1 <= r2 <= MAX_ROW):
                 raise FormulaSyntaxError(f"reference {raw} lies outside the sheet")
-            a1, a2 = bool(ma.group(1)), bool(mb.group(1))
-            if r1 > r2:
-                r1, r2, a1, a2 = r2, r1, a2, a1
-            return ("area", sheet, r1, None, r2, None, a1, True, a2, True)
+            return _area_node(sheet, r1, None, r2, None, bool(ma.group(1)), True, bool(mb.group(1)), True)
         raise Unsupported(f"range operator between {a} and {b} (only cell:cell, column:column and row:row)")
     m = _CELL_RE.match(text)
     if m:
@@ -571,11 +571,7 @@ def shift(node, dr: int, dc: int):
             if not (1 <= c1 <= MAX_COL and 1 <= c2 <= MAX_COL):
                 return ("err", "#REF!")
         # a moved range may have its corners the other way round (A1:A$1 one row down is A$1:A2)
-        if r1 is not None and r1 > r2:
-            r1, r2, ra1, ra2 = r2, r1, ra2, ra1
-        if c1 is not None and c1 > c2:
-            c1, c2, ca1, ca2 = c2, c1, ca2, ca1
-        return ("area", sh, r1, c1, r2, c2, ra1, ca1, ra2, ca2)
+        return _area_node(sh, r1, c1, r2, c2, ra1, ca1, ra2, ca2)
     if kind == "bin":
         return ("bin", node[1], shift(node[2], dr, dc), shift(node[3], dr, dc))
     if kind == "un":
