@@ -710,7 +710,8 @@ class VaporiserResult:
     reynolds_in, reynolds_exit : gas Reynolds numbers [-]
     verdict : "good", "marginal" or "poor" followed by the reasons, per point (str)
     validity : "" or the correlations/ranges left, per point (str)
-    profile : dict of arrays (n_steps + 1, *shape): position [m], gas_temperature [K],
+    profile : dict of arrays (nodes, *shape), nodes = legs x n_steps + 1: position along the heated
+        legs [m], gas_temperature [K],
         wall_temperature [K], vapour_fraction [-], velocity [m/s], pressure [Pa],
         droplet_diameter [m], time [s]
     """
