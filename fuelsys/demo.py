@@ -94,3 +94,13 @@ GAS = {
     "line_bar_abs": 2.5,          # regulated pressure before the jet [bar abs]
     "flow_minutes": 3.0,          # length of a start run [min]
 }
+
+#: combustor liner openings, invented: zone, hole count, diameter [mm] (None: the vaporiser tube bore)
+COMBUSTOR = {
+    "openings": (
+        ("tubes", 6, None),
+        ("primary", 10, 3.0),
+        ("secondary", 12, 4.5),
+        ("dilution", 20, 6.5),
+    ),
+}

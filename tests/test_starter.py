@@ -295,3 +295,17 @@ def test_pdf_render_of_the_first_pages_has_no_error_cells(tmp_path):
         assert bad not in text, bad
     assert not re.search(r"FS error: \w", text)  # an error text (the start sheet only mentions the prefix)
     assert re.search(r"\d+\.\d+", text)
+
+
+def test_combustor_sheet_closes_the_energy_balance(built):
+    """Primary + secondary + dilution mixing returns the turbine inlet the fuel demand used (issue's 1 %)."""
+    ws = _values(built)["Combustor"]
+    head = _find(ws, "point")
+    rows = range(head + 1, head + 1 + len(demo.ENGINE["points"]))
+    for r in rows:
+        exit_c, t4_c = ws[f"G{r}"].value, ws[f"H{r}"].value
+        assert abs((exit_c + 273.15) / (t4_c + 273.15) - 1) < 0.01, (r, exit_c, t4_c)
+    shares = [ws[f"G{r}"].value for r in range(4, 8)]
+    assert sum(shares) == pytest.approx(1.0, abs=1e-12)  # air fractions sum to 1
+    # common practice, no source: about a fifth of the air burns in the primary zone
+    assert 0.15 < ws[f"B{_find(ws, 'primary share (tubes + primary holes)')}"].value < 0.30

@@ -18,7 +18,7 @@ import sys
 from pathlib import Path
 
 from openpyxl import Workbook
-from openpyxl.chart import Reference, ScatterChart, Series
+from openpyxl.chart import BarChart, Reference, ScatterChart, Series
 from openpyxl.formatting.rule import FormulaRule
 from openpyxl.styles import Alignment, Font, PatternFill
 from openpyxl.worksheet.formula import ArrayFormula
@@ -398,6 +398,76 @@ def sheet_vaporiser(wb, bk):
         ws.add_chart(chart, f"G{profiles[0][1] if colno == 4 else profiles[0][1] + 16}")
 
 
+def sheet_combustor(wb, bk):
+    ws = wb.create_sheet("Combustor")
+    w = SheetWriter(wb, ws)
+    w.heading("Combustor air split and zone temperatures")
+    w.note("Every liner opening sees the same pressure drop, so the air divides by effective area (holes x Cd x "
+           "area). The primary zone gets the vaporiser tubes' air and the primary holes'; the fuel burned is the "
+           "fuel flow times the combustion efficiency, as in the engine's fuel demand.")
+    w.header_row(["zone", "holes", "diameter [mm]", "Cd (empty: plain hole)", "", "zone", "air share [-]"])
+    first = w.row
+    openings = bk.s.COMBUSTOR["openings"]
+    for k, (zone, count, dia) in enumerate(openings):
+        r = first + k
+        w.cell(r, 1, zone, is_input=True)
+        w.cell(r, 2, count, is_input=True)
+        w.cell(r, 3, "=TubeBoreMm" if dia is None else dia, is_input=dia is not None, number_format="0.00")
+        w.cell(r, 4, None, is_input=True)
+    last = first + len(openings) - 1
+    ws[f"F{first}"] = ArrayFormula(f"F{first}:G{last}",
+                                   f"=FS_ZONE_AIR(B{first}:B{last},C{first}:C{last},D{first}:D{last},"
+                                   f"A{first}:A{last})")
+    w.row = last + 1
+    w.result("primary share (tubes + primary holes)", f"=G{first}+G{first + 1}", "-", name="PrimaryShare",
+             number_format="0.000")
+    w.result("secondary share", f"=G{first + 2}", "-", name="SecondaryShare", number_format="0.000")
+    bk.cells["primary-zone air share [-]"] = f"Combustor!$B${w.row - 2}"
+    w.heading("From idle to full power", sub=True)
+    w.header_row(["point", "fuel burned [g/min]", "primary φ", "primary flame [°C]", "secondary φ",
+                  "secondary zone [°C]", "exit, mixed out [°C]", "turbine inlet set [°C]", "exit - set [K]"])
+    op_first = w.row
+    for i in range(bk.points):
+        r = w.row
+        air, t3, p3 = _eng(bk, "C", i), _eng(bk, "H", i), _eng(bk, "G", i)
+        w.cell(r, 1, f"={_eng(bk, 'A', i)}")
+        w.cell(r, 2, f"={_eng(bk, 'I', i)}*CombustionEff", number_format="0.0")
+        w.cell(r, 3, f"=FS_ZONE_PHI(B{r},{air},PrimaryShare,FuelName)", number_format="0.000")
+        w.cell(r, 4, f"=FS_FLAME_TEMP(FuelName,C{r},{t3},{p3})", number_format="0")
+        w.cell(r, 5, f"=FS_ZONE_PHI(B{r},{air},PrimaryShare+SecondaryShare,FuelName)", number_format="0.000")
+        w.cell(r, 6, f"=FS_FLAME_TEMP(FuelName,E{r},{t3},{p3},\"complete\")", number_format="0")
+        # hot stream: the secondary zone's gas (its air plus the fuel burned), mixed with the dilution air
+        w.cell(r, 7, f"=FS_MIX_TEMP(F{r},{air}*(PrimaryShare+SecondaryShare)+B{r}/60,{t3},{air}*(1-PrimaryShare-"
+                     f"SecondaryShare),B{r}/60/({air}*(PrimaryShare+SecondaryShare)),FuelName)", number_format="0")
+        w.cell(r, 8, f"={_eng(bk, 'D', i)}", number_format="0")
+        w.cell(r, 9, f"=G{r}-H{r}", number_format="0.0")
+        w.row += 1
+    op_last = w.row - 1
+    bk.cells["primary flame at full power [°C]"] = f"Combustor!$D${op_last}"
+    bk.cells["primary φ at full power"] = f"Combustor!$C${op_last}"
+
+    bars = BarChart()
+    bars.title = "Air share by zone"
+    bars.y_axis.title = "share of the liner air [-]"
+    bars.add_data(Reference(ws, min_col=7, min_row=first, max_row=last), titles_from_data=False)
+    bars.set_categories(Reference(ws, min_col=6, min_row=first, max_row=last))
+    bars.legend = None
+    bars.height, bars.width = 7, 11
+    ws.add_chart(bars, "K3")
+    temps = ScatterChart()
+    temps.title = "Zone temperatures from idle to full power"
+    temps.x_axis.title = "shaft speed [rpm]"
+    temps.y_axis.title = "temperature [°C]"
+    temps.style = 13
+    speeds = Reference(wb["Engine"], min_col=2, min_row=bk.op_rows[0], max_row=bk.op_rows[-1])
+    for colno, name in ((4, "primary flame"), (6, "secondary zone"), (7, "exit")):
+        ser = Series(Reference(ws, min_col=colno, min_row=op_first, max_row=op_last), speeds, title=name)
+        ser.marker.symbol = "circle"
+        temps.series.append(ser)
+    temps.height, temps.width = 8, 14
+    ws.add_chart(temps, "K18")
+
+
 def sheet_pump(wb, bk):
     p = bk.s.PUMP
     ws = wb.create_sheet("Pump")
@@ -554,7 +624,8 @@ def _verdict_formatting(wb, bk):
                 rng, FormulaRule(formula=[f'LEFT({top_left},{len(text)})="{text}"'], fill=fill, stopIfTrue=True))
 
 
-SECTIONS = (sheet_start, sheet_engine, sheet_fuel, sheet_needles, sheet_vaporiser, sheet_pump, sheet_gas,
+SECTIONS = (sheet_start, sheet_engine, sheet_fuel, sheet_needles, sheet_vaporiser, sheet_combustor, sheet_pump,
+            sheet_gas,
             sheet_summary)
 
 
