@@ -389,3 +389,12 @@ def test_template_cache_matches_a_fresh_parse(text, host, move):
     assert cache.tree(moved[1:], r2, c2) == ev.parse(moved[1:]), (text, moved)
     # a shared formula's later cells are its first cell's tree, moved the same way
     assert ev.shift(ev.parse(text), r2 - r, c2 - c) == ev.parse(moved[1:]), (text, moved)
+
+
+def test_relative_defined_name_is_relative_to_the_cell_using_it(tmp_path):
+    # a name holding a relative reference is stored as seen from A1 and moves with the
+    # cell that uses it [NAMES] (from memory: "Use relative references in names")
+    cells = [c("B1", "10"), c("B2", "20"), c("B3", "30"), c("A3", f="RightOf*2"), c("A1", f="RightOf+1")]
+    path = raw_book(str(tmp_path / "rel.xlsx"), [("S", rows_xml(cells))], names=[("RightOf", None, "S!B1")])
+    got = ev.evaluate_workbook(path)
+    assert got[("S", "A3")] == 60.0 and got[("S", "A1")] == 11.0

@@ -608,9 +608,9 @@ class _Compiler:
 
     # -- references -------------------------------------------------------
     def _sheet(self, name):
+        if self.e.no_book:
+            raise Unsupported("cell references need a workbook")
         if name is None:
-            if self.e.no_book:
-                raise Unsupported("cell references need a workbook")
             return self.si
         si = self.e.sheet_ids.get(name.upper())
         if si is None or not self.e.is_worksheet[si]:
