@@ -341,6 +341,9 @@ def sheet_vaporiser(wb, bk):
     w.input("heated length", "TubeLengthMm", v["heated_length_mm"], "mm", low=5, high=600)
     w.input("tube wall temperature", "WallC", v["wall_c"], "°C", low=0, high=1100)
     w.input("tube inlet discharge coefficient", "TubeCd", v["cd"], "-", low=0.3, high=1)
+    w.input("tube shape", "TubeShape", v.get("shape", "straight"), "", choices=("straight", "return"),
+            comment="straight: one heated leg; return: a second leg of the same length after a 180° bend, "
+                    "the outlet facing the front of the combustor")
     items = (("vaporised_pct", "vaporised [%]", "0.0"), ("exit_c", "exit [°C]", "0.0"),
              ("dew_margin_k", "above dew point [K]", "0.0"), ("residence_ms", "residence [ms]", "0.00"),
              ("droplet_life_ms", "droplet life [ms]", "0.0"), ("tube_phi", "tube φ [-]", "0.00"),
@@ -357,7 +360,7 @@ def sheet_vaporiser(wb, bk):
         w.cell(r, 3, f"={_eng(bk, 'J', i)}", number_format="0.00")
         for j, (item, _, fmt) in enumerate(items, start=4):
             w.cell(r, j, f"=FS_VAPORISER(TubeBoreMm,TubeLengthMm,C{r},B{r},{_eng(bk, 'G', i)},{_eng(bk, 'H', i)},"
-                         f"WallC,FuelName,OilPct,\"{item}\")", number_format=fmt)
+                         f"WallC,FuelName,OilPct,\"{item}\",TubeShape)", number_format=fmt)
         w.row += 1
     verdict_col = col(3 + len(items))
     bk.verdict_ranges.append(("Vaporiser", f"{verdict_col}{first}:{verdict_col}{w.row - 1}"))
@@ -378,7 +381,7 @@ def sheet_vaporiser(wb, bk):
         r = w.row
         vr = first + i
         formula = (f"=FS_VAPORISER_PROFILE(TubeBoreMm,TubeLengthMm,C{vr},B{vr},{_eng(bk, 'G', i)},"
-                   f"{_eng(bk, 'H', i)},WallC,FuelName,OilPct,11)")
+                   f"{_eng(bk, 'H', i)},WallC,FuelName,OilPct,11,TubeShape)")
         ws[f"A{r}"] = ArrayFormula(f"A{r}:E{r + 11}", formula)
         profiles.append((label, r))
         w.row = r + 12
