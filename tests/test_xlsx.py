@@ -262,6 +262,8 @@ def test_rich_workbook_recalc_in_place_keeps_every_other_member(tmp_path):
     assert len(wb2["Inputs"]._charts) == 1  # the chart still reads as a chart
     assert wb2["Inputs"]["B1"].comment.text == "fuel temperature in the tank"
     assert wb2["Inputs"].data_validations.dataValidation[0].formula1 == "-40"
+    rules = [r for cf in wb2["Inputs"].conditional_formatting for r in cf.rules]
+    assert len(rules) == 1 and rules[0].operator == "greaterThan" and rules[0].formula == ["10"]
     assert wb2.defined_names["Pressure"].attr_text == "Inputs!$B$2"
     assert ev.check_workbook(path).ok
 
