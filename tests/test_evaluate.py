@@ -88,6 +88,8 @@ COMPARISONS = [
     ("1+1E-15=1", True),  # [FP] a difference past the 15th digit does not count
     ("1+1E-14=1", False),  # [FP] a difference in the 15th digit counts
     ("3<>3", False),  # [OPS] not equal
+    ("(0.3-0.2-0.1)=0", True),  # [FP] a sum that cancels to within the last digits is exactly 0
+    ('0.5-0.4-0.1&""', "0"),  # [FP] the documented =(0.5-0.4-0.1) example shows 0
     ("2>=2", True),  # [OPS]
 ]
 

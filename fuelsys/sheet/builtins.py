@@ -299,14 +299,32 @@ def _two_numbers(a, b):
     return a, b
 
 
+#: relative size below which a sum of two numbers of opposite sign counts as zero (2^-48)
+CANCEL_TOLERANCE = 2.0 ** -48
+
+
+def _approx_sum(a: float, b: float) -> float:
+    """a + b, but exactly 0 when the two cancel to within the last digits.
+
+    Spreadsheets snap a sum of nearly equal numbers of opposite sign to zero,
+    so that 0.3-0.2-0.1 style differences show 0 (Microsoft, "Floating-point
+    arithmetic may give inaccurate results in Excel", the 15-digit section;
+    LibreOffice does the same with a relative tolerance of 2^-48).
+    """
+    s = a + b
+    if (a < 0) != (b < 0) and abs(s) < abs(a) * CANCEL_TOLERANCE:
+        return 0.0
+    return s
+
+
 def op_add(a, b):
     a, b = _two_numbers(a, b)
-    return a if b is None else _finite(a + b)
+    return a if b is None else _finite(_approx_sum(a, b))
 
 
 def op_sub(a, b):
     a, b = _two_numbers(a, b)
-    return a if b is None else _finite(a - b)
+    return a if b is None else _finite(_approx_sum(a, -b))
 
 
 def op_mul(a, b):
