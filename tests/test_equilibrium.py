@@ -38,7 +38,7 @@ def jet_gas(ct):
 
 # -- species data -------------------------------------------------------------------------
 # (species, enthalpy of formation at 298.15 K [J/mol], source): the Hf(298) listed for each species
-# in the CEA data file of McBride, Zehe & Gordon (2002) (from memory); checks the transcription of
+# in the CEA data file of McBride, Zehe & Gordon (2002) (from memory); checks the copying of
 # the coefficients, whose b1 terms carry the enthalpy of formation
 HF_298 = [
     ("CO", -110535.196, "McBride, Zehe & Gordon 2002 (NASA/TP-2002-211556), CO"),
