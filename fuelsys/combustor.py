@@ -72,6 +72,7 @@ import numpy as np
 
 from fuelsys import equilibrium, thermo
 from fuelsys.errors import FuelsysInputError, warn_validity
+from fuelsys.arrays import as_float as _out
 
 #: liner zones an opening can belong to
 ZONES = ("vaporiser", "primary", "secondary", "dilution", "cooling")
@@ -102,10 +103,6 @@ PRIMARY_SHARE_USUAL = (0.15, 0.30)
 #: from memory)
 LINER_DP_USUAL = (0.02, 0.08)
 
-
-def _out(x):
-    a = np.asarray(x, dtype=float)
-    return float(a) if a.ndim == 0 else a
 
 
 def _finite(x, name, unit, positive=True, allow_zero=False):

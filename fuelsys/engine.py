@@ -49,15 +49,12 @@ import numpy as np
 
 from fuelsys import thermo
 from fuelsys.errors import FuelsysInputError, require, warn_validity
+from fuelsys.arrays import as_float as _out
 
 #: ISA sea-level static pressure [Pa] and temperature [K] (ISO 2533)
 P_ISA = 101325.0
 T_ISA = 288.15
 
-
-def _out(x):
-    a = np.asarray(x, dtype=float)
-    return float(a) if a.ndim == 0 else a
 
 
 def _finite(x, name, unit, positive=True):

@@ -69,6 +69,7 @@ import numpy as np
 
 from fuelsys import thermo
 from fuelsys.errors import FuelsysInputError, warn_validity
+from fuelsys.arrays import as_float as _out
 
 #: standard-state pressure of the NASA polynomials [Pa]
 P_STANDARD = 1.0e5
@@ -160,10 +161,6 @@ _LEAN_SET = np.array([s in ("CO2", "H2O", "O2", "N2", "Ar") for s in SPECIES])
 _RICH_SET = np.array([s in ("CO2", "H2O", "CO", "H2", "N2", "Ar") for s in SPECIES])
 _ALL_SET = np.ones(len(SPECIES), dtype=bool)
 
-
-def _out(x):
-    a = np.asarray(x, dtype=float)
-    return float(a) if a.ndim == 0 else a
 
 
 def _nasa9(coef, t_mid, T):

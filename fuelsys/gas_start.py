@@ -59,6 +59,8 @@ import numpy as np
 
 from fuelsys import heat
 from fuelsys.errors import FuelsysInputError, warn_validity
+from fuelsys.arrays import as_float as _out
+from fuelsys.arrays import checked_array as _arr
 
 #: specific heat of canister shell materials at 300 K [J/(kg K)] (Incropera et al. 2007, Table A.1)
 SHELL_SPECIFIC_HEAT = {"steel": 434.0, "aluminium": 903.0}
@@ -75,20 +77,6 @@ CHURCHILL_CHU_RANGE = {"rayleigh": (1e-1, 1e12)}
 G0 = 9.80665
 
 
-def _out(x):
-    a = np.asarray(x, dtype=float)
-    return float(a) if a.ndim == 0 else a
-
-
-def _arr(x, name, unit, positive=False, nonneg=False):
-    a = np.asarray(x, dtype=float)
-    if np.any(~np.isfinite(a)):
-        raise FuelsysInputError(f"{name} must be a finite number [{unit}]")
-    if positive and np.any(a <= 0):
-        raise FuelsysInputError(f"{name} must be > 0 (got {np.ravel(a[a <= 0])[0]:g} {unit})")
-    if nonneg and np.any(a < 0):
-        raise FuelsysInputError(f"{name} must be >= 0 (got {np.ravel(a[a < 0])[0]:g} {unit})")
-    return a
 
 
 def _gas(gas):

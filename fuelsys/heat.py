@@ -24,6 +24,7 @@ from __future__ import annotations
 import numpy as np
 
 from fuelsys.errors import FuelsysInputError, warn_validity
+from fuelsys.arrays import as_float as _out
 
 #: Stefan-Boltzmann constant [W/(m² K⁴)] (CODATA 2018, exact)
 SIGMA_SB = 5.670374419e-8
@@ -63,10 +64,6 @@ RAYLEIGH_DROP_RATIO = 1.89
 #: critical Weber number for the break-up of a drop in a gas stream (Hinze 1955) [-]
 WEBER_CRITICAL = 12.0
 
-
-def _out(x):
-    a = np.asarray(x, dtype=float)
-    return float(a) if a.ndim == 0 else a
 
 
 def _check(name, **values):

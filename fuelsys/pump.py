@@ -54,6 +54,8 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from fuelsys.errors import FuelsysInputError
+from fuelsys.arrays import as_float as _out
+from fuelsys.arrays import checked_array as _arr
 
 #: standard gravity [m/s²] (CGPM 1901)
 G0 = 9.80665
@@ -65,20 +67,6 @@ MAX_CONDITION = 1.0e7
 MAX_RELATIVE_ERROR = 1.0
 
 
-def _out(x):
-    a = np.asarray(x, dtype=float)
-    return float(a) if a.ndim == 0 else a
-
-
-def _arr(x, name, unit, positive=False, nonneg=False):
-    a = np.asarray(x, dtype=float)
-    if np.any(~np.isfinite(a)):
-        raise FuelsysInputError(f"{name} must be a finite number [{unit}]")
-    if positive and np.any(a <= 0):
-        raise FuelsysInputError(f"{name} must be > 0 (got {np.ravel(a[a <= 0])[0]:g} {unit})")
-    if nonneg and np.any(a < 0):
-        raise FuelsysInputError(f"{name} must be >= 0 (got {np.ravel(a[a < 0])[0]:g} {unit})")
-    return a
 
 
 # -- system curve -------------------------------------------------------------------

@@ -40,6 +40,7 @@ from __future__ import annotations
 import numpy as np
 
 from fuelsys.errors import FuelsysInputError, warn_validity
+from fuelsys.arrays import as_float as _out
 
 #: molar gas constant [J/(mol K)] (CODATA 2018, exact)
 R_MOLAR = 8.314462618
@@ -112,10 +113,6 @@ Y_AIR = _X_AIR * _MM / M_AIR
 #: specific gas constant of dry air [J/(kg K)]
 R_AIR = R_MOLAR / M_AIR
 
-
-def _out(x):
-    a = np.asarray(x, dtype=float)
-    return float(a) if a.ndim == 0 else a
 
 
 def _temperature(T, what="temperature"):

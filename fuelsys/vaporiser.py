@@ -94,6 +94,7 @@ import numpy as np
 from fuelsys import heat, thermo
 from fuelsys.errors import FuelsysInputError, ValidityWarning, warn_validity
 from fuelsys.fuels.base import P_ATM, T0_C
+from fuelsys.arrays import as_float as _out
 
 #: number of axial steps of the march (default); the step-doubling estimate uses half of it
 N_STEPS = 40
@@ -169,10 +170,6 @@ FLAME_SPEED_SURROGATE = {"kerosene": "isooctane", "propane": "propane", "butane"
 FLAMMABILITY_LIMITS = {"kerosene": (0.7, 5.0), "propane": (2.1, 9.5), "butane": (1.8, 8.4),
                        "isobutane": (1.8, 8.4), "lpg": (1.9, 9.0)}
 
-
-def _out(x):
-    a = np.asarray(x, dtype=float)
-    return float(a) if a.ndim == 0 else a
 
 
 def _family(fuel) -> str:

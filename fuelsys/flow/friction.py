@@ -68,6 +68,7 @@ import math
 import numpy as np
 
 from fuelsys.errors import FuelsysInputError, warn_validity
+from fuelsys.arrays import as_float as _out
 
 #: absolute roughness of drawn tubing (stainless hypodermic, copper, brass) [m]
 #: -- Moody (1944): 0.000005 ft = 1.5 um
@@ -97,10 +98,6 @@ _LN37530 = math.log(37530.0)
 _LN7 = math.log(7.0)
 _C_LOG10 = 2.0 / math.log(10.0)
 
-
-def _out(a):
-    a = np.asarray(a, dtype=float)
-    return float(a) if a.ndim == 0 else a
 
 
 def _positive(x, name: str, unit: str = "-") -> np.ndarray:

@@ -58,6 +58,7 @@ from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.flow import fittings
 from fuelsys.flow import friction as fr
 from fuelsys.flow._solve import expand_bracket, newton_bracketed
+from fuelsys.arrays import as_float as _out
 
 #: highest pressure difference the needle functions accept by default [Pa] (20 bar)
 P_MAX = 20e5
@@ -72,10 +73,6 @@ _CHUNK = 16384
 _PI = math.pi
 _LN2 = math.log(2.0)
 
-
-def _out(a):
-    a = np.asarray(a, dtype=float)
-    return float(a) if a.ndim == 0 else a
 
 
 def _check_positive(x, name: str, scale: float, unit: str) -> np.ndarray:

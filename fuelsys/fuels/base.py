@@ -18,21 +18,13 @@ from __future__ import annotations
 
 import numpy as np
 
+from fuelsys.arrays import as_float  # noqa: F401 -- part of this module's interface
 from fuelsys.errors import FuelsysInputError
 
 #: kelvin offset of the Celsius scale
 T0_C = 273.15
 #: standard atmosphere [Pa]
 P_ATM = 101325.0
-
-
-def as_float(x):
-    """Return a Python float for a 0-d result, else the array unchanged.
-
-    Keeps 0-d arrays from leaking out of a public function (STYLE "Do" 6).
-    """
-    a = np.asarray(x, dtype=float)
-    return float(a) if a.ndim == 0 else a
 
 
 class Fuel:
