@@ -38,8 +38,9 @@ def _print_table(rows, headers, out):
         out.write("  ".join(c.rjust(w) for c, w in zip(r, widths)) + "\n")
 
 
-def property_tables(out=sys.stdout) -> None:
+def property_tables(out=None) -> None:
     """Print the built-in kerosene's properties over -40..150 °C and a propane canister table."""
+    out = sys.stdout if out is None else out
     import numpy as np
 
     from fuelsys.fuels import get_fuel
@@ -106,8 +107,9 @@ def _fmt(v) -> str:
     return str(v)
 
 
-def print_summary(rows, out=sys.stdout) -> None:
+def print_summary(rows, out=None) -> None:
     """The sizing summary: (label, value) rows read from a computed book."""
+    out = sys.stdout if out is None else out
     width = max(len(label) for label, _ in rows)
     for label, value in rows:
         text = _fmt(value)
