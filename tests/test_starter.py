@@ -151,7 +151,9 @@ def _find(ws, label):
     raise KeyError(label)
 
 
-def test_changed_needle_length_moves_the_dependent_results(built, tmp_path):
+def test_changed_needle_length_moves_the_dependent_results(tmp_path):
+    built = tmp_path / "demo.xlsx"  # the committed demo book, as a builder would receive it
+    shutil.copyfile(starter.EXAMPLE_PATH, built)
     edited = tmp_path / "edited.xlsx"
     ws0 = openpyxl.load_workbook(built)["Needles"]
     r_len = _find(ws0, "needle length")
@@ -309,3 +311,29 @@ def test_combustor_sheet_closes_the_energy_balance(built):
     assert sum(shares) == pytest.approx(1.0, abs=1e-12)  # air fractions sum to 1
     # common practice, no source: about a fifth of the air burns in the primary zone
     assert 0.15 < ws[f"B{_find(ws, 'primary share (tubes + primary holes)')}"].value < 0.30
+
+
+def test_own_fuel_table_replaces_the_built_in_fuel(built, tmp_path):
+    """Pointing the defined name FuelName at the Fuel sheet's own-fuel table switches every result to it."""
+    from fuelsys.sheet import call
+
+    edited = tmp_path / "own-fuel.xlsx"
+    with zipfile.ZipFile(built) as zin, zipfile.ZipFile(edited, "w", zipfile.ZIP_DEFLATED) as zout:
+        for info in zin.infolist():
+            data = zin.read(info.filename)
+            if info.filename == "xl/workbook.xml":
+                text, n = re.subn(r'(<definedName name="FuelName"[^>]*>)[^<]*(</definedName>)',
+                                  r"\1'Fuel'!$F$2:$G$10\2", data.decode("utf-8"))
+                assert n == 1
+                data = text.encode("utf-8")
+            zout.writestr(info, data)
+    assert recalc_workbook(edited).ok
+    wb = _values(edited)
+    wf = wb["Fuel"]
+    table = [[wf.cell(r, 6).value, wf.cell(r, 7).value] for r in range(2, 11)]
+    r = _find(wf, "density")
+    # the book's cell equals the same function called on the table (the builder's own data: 803 kg/m³ at 15 °C)
+    assert wf[f"B{r}"].value == pytest.approx(call("FS_DENSITY", table, demo.FUEL["cold_c"], demo.FUEL["oil_pct"]),
+                                              rel=1e-12)
+    assert wf[f"B{r}"].value != _values(built)["Fuel"][f"B{r}"].value
+    assert isinstance(wb["Summary"]["B3"].value, float)  # the whole chain still computes
