@@ -82,9 +82,18 @@ def new_book(path, force: bool = False) -> Path:
         raise ValueError(f"a new book needs the .xlsx extension (got {path.name})")
     if path.exists() and not force:
         raise FileExistsError(f"{path} exists already; choose another name or use --force")
-    tmp = path.with_name(f".{path.name}.tmp-{os.getpid()}")
-    shutil.copyfile(STARTER_PATH, tmp)
-    os.replace(tmp, path)
+    tmp = path.with_name(f".{path.name}.tmp-{os.getpid()}.xlsx")
+    try:
+        if STARTER_PATH.exists():  # a checkout: the committed starter, byte for byte
+            shutil.copyfile(STARTER_PATH, tmp)
+        else:  # an installed package carries the builder, not the file: build it the same way
+            from fuelsys.sheet import starter
+
+            starter.build(tmp)
+        os.replace(tmp, path)
+    finally:
+        if tmp.exists():
+            tmp.unlink()
     return path
 
 
