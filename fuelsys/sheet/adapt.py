@@ -241,10 +241,35 @@ class _Default:
         self.value = value
 
 
+#: where the validity notes of calls go while a caller collects them (see :func:`collect_notes`)
+_note_sink = None
+
+
+def set_note_sink(sink):
+    """Send the validity notes of the following calls to list ``sink`` (None: drop them); returns the old sink.
+
+    A cell's value stays a plain number; a caller that wants to know which cells
+    were computed outside a correlation's fitted range (the headless engine's
+    ``--notes``) collects the texts of the :class:`ValidityWarning` s here.
+    """
+    global _note_sink
+    old, _note_sink = _note_sink, sink
+    return old
+
+
 def _run(spec, kwargs):
-    with warnings.catch_warnings():
-        warnings.simplefilter("ignore", ValidityWarning)
-        return spec.impl(**kwargs)
+    if _note_sink is None:
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore", ValidityWarning)
+            return spec.impl(**kwargs)
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ValidityWarning)
+        try:
+            return spec.impl(**kwargs)
+        finally:
+            for w in caught:
+                if issubclass(w.category, ValidityWarning):
+                    _note_sink.append(f"{spec.name}: {w.message}")
 
 
 def _call_table(spec, bound):

@@ -56,6 +56,8 @@ def add_commands(subparsers) -> None:
                    help="builtin: fuelsys's own engine (default); libreoffice: a headless LibreOffice with "
                         "the fuelsys add-in (rewrites the whole file)")
     p.add_argument("--progress", action="store_true", help="show a progress bar even when not on a terminal")
+    p.add_argument("--notes", action="store_true",
+                   help="list the cells computed outside a correlation's fitted range")
     p.set_defaults(func=cmd_recalc)
 
     p = subparsers.add_parser(
@@ -226,6 +228,10 @@ def cmd_recalc(args) -> int:
         if progress is not None:
             progress.close()
     _list_skipped(rep.skipped)
+    if getattr(args, "notes", False):
+        for cell, notes in rep.notes:
+            for n in notes:
+                print(f"  outside a fitted range: {cell}: {n}")
     print(rep.summary())
     return 0 if rep.written else 1
 

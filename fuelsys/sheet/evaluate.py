@@ -794,7 +794,7 @@ class _Compiler:
         return lambda: fn(*[f() for f in fs])
 
     def _catalogue_call(self, spec, args):
-        from fuelsys.sheet.adapt import call_spec
+        from fuelsys.sheet.adapt import call_spec, set_note_sink
 
         fs = [self.comp(a, True) for a in args]
         memo = self.e.call_memo
@@ -826,13 +826,24 @@ class _Compiler:
                 else:
                     cells.append(v)
             if scalar:
-                # the same function on the same single values gives the same result
+                # the same function on the same single values gives the same result (and notes)
                 key = (name, tuple((type(x), x) for x in cells))
-                out = memo.get(key)
-                if out is None:
-                    out = call_spec(spec, *cells)
+                hit = memo.get(key)
+                if hit is None:
+                    sink = []
+                    outer = set_note_sink(sink)
+                    try:
+                        out = call_spec(spec, *cells)
+                    finally:
+                        set_note_sink(outer)
+                    if outer is not None:
+                        outer.extend(sink)
                     if len(memo) < 200_000:
-                        memo[key] = out
+                        memo[key] = (out, tuple(sink))
+                else:
+                    out, notes = hit
+                    if notes and self.e.note_sink is not None:
+                        self.e.note_sink.extend(notes)
             else:
                 out = call_spec(spec, *cells)
             if isinstance(out, list):
@@ -961,6 +972,11 @@ class Computation:
     sheets: list
     seconds: float
     formula_cells: int
+    #: formula cell -> validity notes (computed outside a correlation's fitted range)
+    notes: dict = field(default_factory=dict)
+
+    def notes_list(self) -> list[tuple[str, tuple]]:
+        return [(self.cell(k), v) for k, v in sorted(self.notes.items())]
 
     def cell(self, key) -> str:
         si, r, c = key
@@ -988,6 +1004,7 @@ class Engine:
             self.extent.append((s.max_row, s.max_col))
         self.area_cache: dict = {}
         self.call_memo: dict = {}
+        self.note_sink = None  # the current cell's validity notes while it computes
         self.catalogue = _catalogue()
         self._names = {}
         self._name_trees = {}
@@ -1092,6 +1109,9 @@ class Engine:
         for key, why in cyclic.items():
             skipped[key] = why
         values: dict[tuple, object] = {}
+        notes: dict[tuple, tuple] = {}
+        from fuelsys.sheet.adapt import set_note_sink
+
         vals = self.vals
         n = len(order)
         step = max(1, n // 200)
@@ -1108,6 +1128,8 @@ class Engine:
                 skipped[key] = root if root.startswith("depends on ") else \
                     f"depends on {self._name(bad)} ({root})"
                 continue
+            sink = self.note_sink = []
+            outer = set_note_sink(sink)
             try:
                 out = node.fn()
             except Exception as exc:
@@ -1115,6 +1137,11 @@ class Engine:
                     raise
                 skipped[key] = f"internal error ({type(exc).__name__}: {exc})"
                 continue
+            finally:
+                set_note_sink(outer)
+                self.note_sink = None
+            if sink:
+                notes[key] = tuple(dict.fromkeys(sink))
             si, r, c = key
             if node.kind == "array" and node.area is not None:
                 r1, c1, r2, c2 = node.area
@@ -1132,7 +1159,7 @@ class Engine:
                 values[key] = v
         if progress is not None:
             progress(n, n)
-        return Computation(values, skipped, self.sheet_names, time.perf_counter() - t0, len(nodes))
+        return Computation(values, skipped, self.sheet_names, time.perf_counter() - t0, len(nodes), notes)
 
     def _name(self, key):
         si, r, c = key
@@ -1347,6 +1374,8 @@ class Report:
     changed_parts: list
     seconds: float
     written: bool
+    #: (cell, notes) of the cells computed outside a correlation's fitted range
+    notes: list = field(default_factory=list)
 
     @property
     def ok(self) -> bool:
@@ -1355,9 +1384,11 @@ class Report:
     def summary(self) -> str:
         where = f"written to {self.output}" if self.written else \
             "nothing written (fix the cells listed, or allow a partial result)"
+        flagged = (f"; {len(self.notes)} cell(s) computed outside a correlation's fitted range"
+                   " (--notes lists them)") if self.notes else ""
         return (f"{os.path.basename(self.path)}: {self.computed} cells computed, "
                 f"{len(self.skipped)} skipped, {len(self.changed_parts)} sheet part(s) changed, "
-                f"{self.seconds:.2f} s; {where}")
+                f"{self.seconds:.2f} s; {where}{flagged}")
 
 
 def recalc_workbook(path, output=None, allow_partial: bool = False, progress=None) -> Report:
@@ -1378,12 +1409,14 @@ def recalc_workbook(path, output=None, allow_partial: bool = False, progress=Non
     skipped = comp.skipped_list()
     target = os.fspath(output) if output is not None else os.fspath(path)
     if skipped and not allow_partial:
-        return Report(os.fspath(path), None, len(comp.values), skipped, [], time.perf_counter() - t0, False)
+        return Report(os.fspath(path), None, len(comp.values), skipped, [], time.perf_counter() - t0, False,
+                      comp.notes_list())
     updates = {}
     for (si, r, c), v in comp.values.items():
         updates.setdefault(si, {})[(r, c)] = v
     changed = xlsx.write_values(book, updates, target)
-    return Report(os.fspath(path), target, len(comp.values), skipped, changed, time.perf_counter() - t0, True)
+    return Report(os.fspath(path), target, len(comp.values), skipped, changed, time.perf_counter() - t0, True,
+                  comp.notes_list())
 
 
 @dataclass
