@@ -337,3 +337,11 @@ def test_own_fuel_table_replaces_the_built_in_fuel(built, tmp_path):
                                               rel=1e-12)
     assert wf[f"B{r}"].value != _values(built)["Fuel"][f"B{r}"].value
     assert isinstance(wb["Summary"]["B3"].value, float)  # the whole chain still computes
+
+
+def test_book_asks_to_show_its_stored_values_on_open():
+    """openpyxl's default fullCalcOnLoad would make a program without the functions replace every value."""
+    with zipfile.ZipFile(starter.STARTER_PATH) as z:
+        xml = z.read("xl/workbook.xml").decode("utf-8")
+    calc = re.search(r"<calcPr[^>]*>", xml).group(0)
+    assert 'fullCalcOnLoad="1"' not in calc

@@ -21,6 +21,7 @@ from openpyxl import Workbook
 from openpyxl.chart import BarChart, Reference, ScatterChart, Series
 from openpyxl.formatting.rule import FormulaRule
 from openpyxl.styles import Alignment, Font, PatternFill
+from openpyxl.workbook.properties import CalcProperties
 from openpyxl.worksheet.formula import ArrayFormula
 
 from fuelsys.sheet import catalogue
@@ -367,6 +368,8 @@ def sheet_vaporiser(wb, bk):
     ws.column_dimensions[verdict_col].width = 90
     for cc in range(first, w.row):
         ws[f"{verdict_col}{cc}"].alignment = Alignment(wrap_text=True, vertical="top")
+        # a fixed height, so every spreadsheet program places the charts below where this book says
+        ws.row_dimensions[cc].height = 64
     bk.cells["vaporiser verdict at idle"] = f"Vaporiser!${verdict_col}${first}"
     bk.cells["vaporiser verdict at full power"] = f"Vaporiser!${verdict_col}${w.row - 1}"
     bk.cells["vaporised at idle [%]"] = f"Vaporiser!$D${first}"
@@ -549,8 +552,10 @@ def sheet_pump(wb, bk):
     need.marker.symbol = "diamond"
     need.marker.size = 8
     chart.series.append(need)
-    chart.height, chart.width = 9, 15
-    ws.add_chart(chart, "K3")
+    chart.x_axis.number_format = "0"
+    chart.x_axis.majorUnit = 50
+    chart.height, chart.width = 11, 20
+    ws.add_chart(chart, "O3")
 
 
 def sheet_gas(wb, bk):
@@ -651,6 +656,10 @@ def build(path: Path | str = STARTER_PATH, compute: bool = True, scenario=None, 
         section(wb, bk)
     sheet_functions(wb)
     _verdict_formatting(wb, bk)
+    # the book carries computed values: ask spreadsheet programs to show them rather than recompute on
+    # open (a program without the fuelsys functions would replace every one with #NAME?); calcId is
+    # that of a current Excel engine, which otherwise recomputes books stamped by an older one
+    wb.calculation = CalcProperties(calcId=191029, fullCalcOnLoad=False)
     stamp = datetime.datetime.combine(datetime.date.today(), datetime.time())
     wb.properties.creator = "fuelsys"
     wb.properties.created = wb.properties.modified = stamp
