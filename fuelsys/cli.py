@@ -135,6 +135,8 @@ def _cmd_demo(args) -> int:
     print("computing the demo book ...", flush=True)
     path = book.write_demo(args.folder)
     rows = book.read_summary(path)
+    if path.name != book.DEMO_NAME:
+        print(f"(kept the edited {book.DEMO_NAME} that was here; the new demo book has its own name)")
     print(f"wrote {path} ({time.perf_counter() - t0:.1f} s); its Summary sheet says:\n")
     print_summary(rows)
     print(f"\nOpen {path.name} in a spreadsheet program to see every formula, chart and verdict;"

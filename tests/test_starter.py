@@ -345,3 +345,17 @@ def test_book_asks_to_show_its_stored_values_on_open():
         xml = z.read("xl/workbook.xml").decode("utf-8")
     calc = re.search(r"<calcPr[^>]*>", xml).group(0)
     assert 'fullCalcOnLoad="1"' not in calc
+
+
+def test_demo_never_overwrites_a_book_someone_edited(tmp_path):
+    first = sheet_book.write_demo(tmp_path)
+    again = sheet_book.write_demo(tmp_path)  # an unedited demo book is simply renewed
+    assert again == first
+    ws = openpyxl.load_workbook(first)["Needles"]
+    edited = tmp_path / "edited.xlsx"
+    _edit_input(first, edited, "Needles", f"B{_find(ws, 'needle length')}", 41.0)
+    shutil.move(edited, first)
+    mine = first.read_bytes()
+    third = sheet_book.write_demo(tmp_path)
+    assert third.name == "fuelsys-demo-1.xlsx"
+    assert first.read_bytes() == mine  # the edited book is untouched

@@ -60,14 +60,33 @@ def read_summary(path) -> list[tuple[str, object]]:
     return rows
 
 
+def _edited(existing: Path, fresh: Path) -> bool:
+    """True when ``existing`` is not simply an earlier demo book: its inputs or formulas were changed."""
+    try:
+        diffs = diff_books(existing, fresh)
+    except Exception:  # not a book we can read: treat it as the user's
+        return True
+    return any(d.kind in ("input", "formula", "sheet") and d.sheet != "Start here" for d in diffs)
+
+
 def write_demo(folder=".", progress=None) -> Path:
-    """Build the demo engine's book in ``folder`` (computed) and return its path."""
+    """Build the demo engine's book in ``folder`` (computed) and return its path.
+
+    An existing ``fuelsys-demo.xlsx`` is replaced only when it is an unedited
+    demo book; one whose inputs or formulas someone changed is kept, and the
+    new book gets the next free name (``fuelsys-demo-1.xlsx`` ...).
+    """
     from fuelsys.sheet import starter
 
-    target = Path(folder) / DEMO_NAME
-    tmp = target.with_name(f".{target.name}.tmp-{os.getpid()}.xlsx")
+    folder = Path(folder)
+    target = folder / DEMO_NAME
+    tmp = folder / f".{DEMO_NAME}.tmp-{os.getpid()}.xlsx"
     try:
         starter.build(tmp, compute=True, title_note="demo")
+        k = 0
+        while target.exists() and _edited(target, tmp):
+            k += 1
+            target = folder / f"{Path(DEMO_NAME).stem}-{k}.xlsx"
         os.replace(tmp, target)
     finally:
         if tmp.exists():
