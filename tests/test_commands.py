@@ -137,8 +137,16 @@ def test_recalc_refused_file(tmp_path, capsys):
 def test_libreoffice_engine_missing_is_a_clear_message(tmp_path, capsys, monkeypatch):
     path = small_book(str(tmp_path / "b.xlsx"))
     monkeypatch.setitem(sys.modules, "fuelsys.sheet.calc_addin.runner", None)  # import fails
-    assert main(["recalc", path, "--engine", "libreoffice"]) == 2
+    assert main(["recalc", path, "--engine", "libreoffice", "-o", str(tmp_path / "o.xlsx")]) == 2
     assert "LibreOffice engine is not available" in capsys.readouterr().err
+
+
+def test_libreoffice_engine_never_overwrites_the_book(tmp_path, capsys):
+    path = small_book(str(tmp_path / "b.xlsx"))
+    before = _read(path)
+    assert main(["recalc", path, "--engine", "libreoffice"]) == 2
+    assert "--output" in capsys.readouterr().err
+    assert _read(path) == before
 
 
 def test_libreoffice_engine_is_called_and_replaces_atomically(tmp_path, capsys, monkeypatch):
