@@ -314,13 +314,22 @@ def compressor_exit_temperature(t_inlet, pr, efficiency):
     return thermo.temperature_from_enthalpy(h1 + (h3s - h1) / eta, t_guess=450.0)
 
 
+#: the choked-nozzle T4 law is trusted down to this fraction of the design delivery pressure; below it the
+#: nozzle of a small turbojet has unchoked (common practice, no source) [-]
+CHOKED_P3_FRACTION = 0.8
+
+
 def turbine_inlet_choked_nozzle(t4_design, p3, p3_design, air_flow, air_flow_design):
     """Turbine-inlet temperature with the nozzle guide vanes choked.
 
     A choked nozzle passes a fixed non-dimensional flow ṁ √T4 / p3, so
-    T4 = T4_design (p3 ṁ_design / (p3_design ṁ))².  Small turbojets' nozzles
-    unchoke at low speed, where this overstates the fall of T4; a measured
-    exhaust or turbine-inlet temperature takes precedence.
+    T4 = T4_design (p3 ṁ_design / (p3_design ṁ))².  The law holds only while
+    the nozzle stays choked, near the design point: small turbojets' nozzles
+    unchoke at part speed, where the law no longer holds and, with a rough air-flow
+    law, gives implausible (even rising) T4.  Points where p3 falls below
+    :data:`CHOKED_P3_FRACTION` of the design value, or where the result
+    exceeds the design T4, are flagged with a :class:`ValidityWarning`; a
+    measured exhaust or turbine-inlet temperature takes precedence.
 
     Parameters
     ----------
@@ -355,7 +364,10 @@ def turbine_inlet_choked_nozzle(t4_design, p3, p3_design, air_flow, air_flow_des
     p3d = _finite(p3_design, "design delivery pressure", "Pa")
     m = _finite(air_flow, "air flow", "kg/s")
     md = _finite(air_flow_design, "design air flow", "kg/s")
-    return _out(t4d * (p3 * md / (p3d * m)) ** 2)
+    t4 = t4d * (p3 * md / (p3d * m)) ** 2
+    warn_validity("choked-nozzle T4 law", "delivery pressure / design", p3 / p3d, CHOKED_P3_FRACTION, np.inf, "-")
+    warn_validity("choked-nozzle T4 law", "T4 / design T4", t4 / t4d, 0.0, 1.0, "-")
+    return _out(t4)
 
 
 # -- energy balance --------------------------------------------------------------

@@ -103,8 +103,13 @@ def head_pressure(height, density, g_load=1.0):
 
 
 def system_pressure(case_pressure, needle_dp, line_dp, *, density, head=0.0, g_load=1.0,
-                    margin_pct=0.0, filter_dp=0.0, valve_dp=0.0, inlet_pressure=0.0):
+                    margin_pct=0.0, filter_dp=0.0, valve_dp=0.0):
     """Pump outlet pressure the fuel system needs (the system curve, point by point).
+
+    The outlet pressure needed does not depend on what is at the pump's inlet;
+    the pump must raise the pressure by this much over a vented tank at pump
+    level (the pump model's test pressures are likewise rises over an inlet at
+    0 bar gauge).
 
     Parameters
     ----------
@@ -126,8 +131,6 @@ def system_pressure(case_pressure, needle_dp, line_dp, *, density, head=0.0, g_l
         Filter pressure drop [Pa]
     valve_dp : array_like
         Valve (solenoid, check) pressure drops [Pa]
-    inlet_pressure : array_like
-        Pump inlet pressure, 0 for a vented tank at pump level [Pa gauge]
 
     Returns
     -------
@@ -150,9 +153,8 @@ def system_pressure(case_pressure, needle_dp, line_dp, *, density, head=0.0, g_l
     df = _arr(filter_dp, "filter pressure drop", "Pa", nonneg=True)
     dv = _arr(valve_dp, "valve pressure drop", "Pa", nonneg=True)
     m = _arr(margin_pct, "margin", "%", nonneg=True)
-    pin = _arr(inlet_pressure, "inlet pressure", "Pa")
     total = pc + dn + dl + df + dv + np.asarray(head_pressure(head, density, g_load))
-    return _out(total * (1.0 + m / 100.0) + pin)
+    return _out(total * (1.0 + m / 100.0))
 
 
 # -- pump model ----------------------------------------------------------------------

@@ -110,9 +110,13 @@ TABLE_FLASH_SPAN_K = 150.0
 #: default discharge coefficient of a plain tube inlet (Lefebvre & Ballal 2010, ch. 4: plain holes
 #: about 0.6 at low bleed; from memory)
 CD_TUBE_INLET = 0.6
-#: JFTOT test temperature of ASTM D3241 / specification limit of ASTM D1655 (Jet A-1): a fuel-wetted
-#: wall above it is taken as a deposit (coking) risk [K]
+#: JFTOT test temperature of ASTM D3241 / specification limit of ASTM D1655 (Jet A-1).  That test
+#: heats the bulk fuel, it is no wall-coking threshold: here it is an assumption, a conservative
+#: temperature above which a fuel-wetted wall may build deposits; it gives a caution, not a verdict [K]
 COKING_LIMIT = 260.0 + T0_C
+#: exit temperature margin over the dew point below which the tube is judged marginal: a colder day
+#: or a richer setting condenses fuel again (common practice, no source) [K]
+DEW_MARGIN_MIN_K = 10.0
 #: fuel-vapour heat capacities are taken at no more than this temperature (the vapour ranges of the fuel
 #: models end here; a mixture inside a vaporiser tube stays far below it) [K]
 T_VAPOUR_CP_MAX = 1500.0
@@ -1935,10 +1939,20 @@ def _liquid_enthalpy(fuel, T):
 
 def _verdicts(N, has_fuel, vap, dew_margin, survive, life, t_res, coking, max_wet, coking_limit,
               flashback, margin, flammable, X_exit, oil, T_exit, T_air, wall_nodes, D0, fuel_wet):
-    """One verdict text per point: level, then the reasons."""
+    """One verdict text per point: level, the reasons, then the cautions.
+
+    The level follows what the march itself decides: whether the fuel is
+    vaporised at the exit (equilibrium) with a margin over the dew point
+    (:data:`DEW_MARGIN_MIN_K`), whether the wall heats at all, and flashback.
+    Two checks that rest on simpler models than the march are reported as
+    cautions and leave the level alone: the d²-law droplet life in the gas
+    alone (the equilibrium march assumes evaporation as fast as the hot wall
+    film gives it, so the two bracket the truth), and deposits on a wetted
+    wall above :data:`COKING_LIMIT`, an assumed threshold.
+    """
     texts = []
     for i in range(N):
-        reasons, level = [], 0
+        reasons, cautions, level = [], [], 0
         if not has_fuel[i]:
             texts.append("no fuel: air only (exit %.0f °C)" % (T_exit[i] - T0_C))
             continue
@@ -1955,18 +1969,9 @@ def _verdicts(N, has_fuel, vap, dew_margin, survive, life, t_res, coking, max_we
             reasons.append(f"only {vap[i] * 100:.0f} % vaporised at the exit (equilibrium); "
                            f"exit {-dew_margin[i]:.0f} K below the dew point")
             level = max(level, 2 if vap[i] < 0.5 else 1)
-        if survive[i]:
-            life_txt = "never at exit conditions" if not np.isfinite(life[i]) else f"{life[i] * 1e3:.0f} ms"
-            reasons.append(f"{D0[i] * 1e6:.0f} µm droplets outlive the tube (life {life_txt} > residence "
-                           f"{t_res[i] * 1e3:.1f} ms)")
-            level = max(level, 1)
-        else:
-            reasons.append(f"{D0[i] * 1e6:.0f} µm droplets evaporate in {life[i] * 1e3:.1f} ms "
-                           f"(residence {t_res[i] * 1e3:.1f} ms)")
-        if coking[i]:
-            liquid = ("fuel and oil" if fuel_wet[i] else "oil") if oil[i] > 0 else "liquid fuel"
-            reasons.append(f"coking risk: wall wetted by {liquid} reaches {max_wet[i] - T0_C:.0f} °C "
-                           f"(> {coking_limit - T0_C:.0f} °C)")
+        if 0 < dew_margin[i] < DEW_MARGIN_MIN_K:
+            reasons.append(f"less than {DEW_MARGIN_MIN_K:.0f} K above the dew point: a colder day or more fuel "
+                           "condenses fuel again")
             level = max(level, 1)
         if flashback[i]:
             reasons.append(f"flashback risk: velocity only {margin[i]:.2f} x the turbulent flame speed where "
@@ -1975,7 +1980,21 @@ def _verdicts(N, has_fuel, vap, dew_margin, survive, life, t_res, coking, max_we
         elif flammable[i]:
             reasons.append(f"flammable mixture at the exit ({X_exit[i] * 100:.1f} % vapour), velocity "
                            f"{margin[i]:.1f} x flame speed")
+        if survive[i]:
+            life_txt = "never at exit conditions" if not np.isfinite(life[i]) else f"{life[i] * 1e3:.0f} ms"
+            cautions.append(f"{D0[i] * 1e6:.0f} µm droplets in the gas alone would outlive the tube (life {life_txt} "
+                            f"> residence {t_res[i] * 1e3:.1f} ms): the tube relies on the fuel film on its hot wall")
+        else:
+            reasons.append(f"{D0[i] * 1e6:.0f} µm droplets evaporate in {life[i] * 1e3:.1f} ms "
+                           f"(residence {t_res[i] * 1e3:.1f} ms)")
+        if coking[i]:
+            liquid = ("fuel and oil" if fuel_wet[i] else "oil") if oil[i] > 0 else "liquid fuel"
+            cautions.append(f"coking risk: wall wetted by {liquid} reaches {max_wet[i] - T0_C:.0f} °C "
+                            f"(> {coking_limit - T0_C:.0f} °C, the assumed deposit threshold)")
         if oil[i] > 0:
-            reasons.append(f"oil residue {oil[i] * 3.6e6:.2f} g/h leaves as liquid")
-        texts.append(("good", "marginal", "poor")[level] + ": " + "; ".join(reasons))
+            cautions.append(f"oil residue {oil[i] * 3.6e6:.2f} g/h leaves as liquid")
+        text = ("good", "marginal", "poor")[level] + ": " + "; ".join(reasons)
+        if cautions:
+            text += "; cautions: " + "; ".join(cautions)
+        texts.append(text)
     return texts

@@ -219,3 +219,18 @@ def test_docstrings_name_units_and_sources():
             entries = re.split(r"\n(?=\w+ : )", body.strip())
             for entry in entries:
                 assert re.search(r"\[[^\]]+\]\s*$", entry.strip()), f"{mod.__name__}.{name}: no unit in {entry!r}"
+
+
+def test_choked_nozzle_law_is_flagged_away_from_design():
+    """The law holds only with a choked nozzle near design (Saravanamuttoo et al. 2009 §8.2); at a third
+    of the design delivery pressure it is outside CHOKED_P3_FRACTION (common practice, no source)."""
+    import warnings as _w
+
+    from fuelsys.errors import ValidityWarning
+
+    with _w.catch_warnings(record=True) as caught:
+        _w.simplefilter("always", ValidityWarning)
+        engine.turbine_inlet_choked_nozzle(1123.0, 2.9e5, 3.0e5, 0.19, 0.19)
+    assert not any(issubclass(w.category, ValidityWarning) for w in caught)
+    with pytest.warns(ValidityWarning, match="choked-nozzle"):
+        engine.turbine_inlet_choked_nozzle(1123.0, 1.1e5, 3.0e5, 0.06, 0.19)

@@ -125,3 +125,23 @@ def test_return_shape_option():
     assert rows[-1][0] == pytest.approx(300.0)
     out = call("FS_VAPORISER", *ARGS, 0, None, "bent")
     assert is_error(out) and "shape must be one of straight, return" in out
+
+
+def test_verdict_levels_follow_the_march_and_cautions_stay_cautions():
+    """A tube that vaporises its fuel well above the dew point is "good"; the d²-law droplet check and the
+    assumed deposit threshold are reported as cautions (DEW_MARGIN_MIN_K: common practice, no source)."""
+    from fuelsys import vaporiser
+
+    good = call("FS_VAPORISER", 6, 90, 37, 4.2, 2.63, 140, 650, "kerosene", 0, "verdict")
+    assert good.startswith("good: fully vaporised") and "cautions:" in good and "coking risk" in good
+    margin = call("FS_VAPORISER", 6, 90, 37, 4.2, 2.63, 140, 650, "kerosene", 0, "dew_margin_k")
+    assert margin > vaporiser.DEW_MARGIN_MIN_K
+    # the same tube fed more fuel sits closer to its dew point: judged marginal, and says why
+    for fuel in (45, 50, 55, 60):
+        m = call("FS_VAPORISER", 6, 90, fuel, 4.2, 2.63, 140, 650, "kerosene", 0, "dew_margin_k")
+        if 0 < m < vaporiser.DEW_MARGIN_MIN_K:
+            v = call("FS_VAPORISER", 6, 90, fuel, 4.2, 2.63, 140, 650, "kerosene", 0, "verdict")
+            assert v.startswith("marginal") and "above the dew point: a colder day" in v
+            break
+    else:
+        pytest.fail("no fuel flow in the sweep gave a small dew margin")

@@ -626,8 +626,8 @@ def _verdict_formatting(wb, bk):
     for sheet, rng in bk.verdict_ranges:
         ws = wb[sheet]
         top_left = rng.split(":")[0]
-        for text, fill in (("ok", green), ("yes", green), ("marginal", amber), ("fail", red),
-                           ("ODD", red), ("no", red), ("FS error", red)):
+        for text, fill in (("ok", green), ("good", green), ("yes", green), ("marginal", amber), ("fail", red),
+                           ("poor", red), ("ODD", red), ("no", red), ("FS error", red)):
             ws.conditional_formatting.add(
                 rng, FormulaRule(formula=[f'LEFT({top_left},{len(text)})="{text}"'], fill=fill, stopIfTrue=True))
 
