@@ -91,12 +91,13 @@ def _arr(x):
 # 1. distillation: D86 -> TBP
 # ---------------------------------------------------------------------------
 #: Riazi-Daubert (1986) coefficients TBP = a * D86**b (kelvin), by volume per cent
-#: distilled (Riazi 2005, Table 3.4 / eq. 3.14).  The end point (100 %) uses the
-#: 95 % pair -- the correlation gives none for the end point.
+#: distilled (Riazi 2005, Table 3.4 / eq. 3.14).  The kelvin a's are the rankine a's of
+#: API Technical Data Book procedure 3A1.1 times 1.8**(b - 1) (a test checks it).  The end
+#: point (100 %) uses the 95 % pair -- the correlation gives none for the end point.
 D86_TBP_RIAZI_DAUBERT_1986 = {
     0: (0.9177, 1.0019),
     10: (0.5564, 1.0900),
-    30: (0.76517, 1.0425),
+    30: (0.7617, 1.0425),
     50: (0.9013, 1.0176),
     70: (0.8821, 1.0226),
     90: (0.9552, 1.0110),
