@@ -27,8 +27,10 @@ Canister chill
 
         (m_l c_l + m_s c_s) dT/dt = -ṁ h_fg(T) + h A (T_air - T),  dm_l/dt = -ṁ
 
-    (the vapour in the head space is neglected against the liquid; a blend's
-    composition is held at its filling value).  h is either given or from the
+    (the vapour in the head space is neglected against the liquid).  The
+    pressure follows the liquid's temperature and, for a blend, the share
+    already drawn off (Rayleigh distillation); the latent heat uses the
+    filling composition.  h is either given or from the
     Churchill-Chu correlation for a vertical surface in air, A from the
     canister's volume as a cylinder twice as tall as wide.
 
@@ -811,14 +813,18 @@ def canister_chill(gas, liquid_mass, shell_mass, mass_flow, duration, t_ambient,
     Y = sol.sol(np.minimum(times, t_stop))
     T = Y[0]
     m = np.where(times <= t_stop, np.maximum(Y[1], 0.0), 0.0)
-    p = np.asarray(gas.canister_pressure(T), dtype=float)
+    # a blend's liquid grows richer in its heavier part as vapour is drawn off (Rayleigh distillation,
+    # see fuelsys.fuels.gases): its pressure falls with the share drawn as well as with temperature
+    drawn = np.clip(1.0 - m / m0, 0.0, 0.99)
+    p = np.asarray(gas.canister_pressure(T, drawn), dtype=float)
     q = np.array([h_of(x) for x in T]) * A * (Ta - T)
     time_empty = float(sol.t_events[0][0]) if sol.t_events[0].size else float("nan")
     time_below = float("nan")
     if p_required is not None:
         preq = float(_arr(p_required, "required pressure", "Pa", positive=True))
         fine = np.linspace(0.0, t_stop, 2001)
-        pf = np.asarray(gas.canister_pressure(sol.sol(fine)[0]), dtype=float)
+        yf = sol.sol(fine)
+        pf = np.asarray(gas.canister_pressure(yf[0], np.clip(1.0 - yf[1] / m0, 0.0, 0.99)), dtype=float)
         below = np.flatnonzero(pf < preq)
         if below.size:
             time_below = float(fine[below[0]])

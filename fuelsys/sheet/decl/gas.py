@@ -8,7 +8,7 @@ from __future__ import annotations
 import numpy as np
 
 from fuelsys.errors import FuelsysInputError
-from fuelsys.fuels.base import T0_C
+from fuelsys.fuels.base import P_ATM, T0_C
 from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
 
 _GAS = Arg("gas", "text", "-", "propane, butane, isobutane or a blend lpg-XX-YY (% by mass)")
@@ -100,8 +100,8 @@ def fs_gas_jet_flow(bore_mm, length_mm, up_bar_abs, down_bar_abs, gas, temp_c, c
           Arg("minutes", "number", "min", "length of the run", gt=0, high=600),
           Arg("ambient_c", "number", "°C", "air temperature round the canister (also the start)", gt=-273.15),
           Arg("shell", "text", "-", "canister material", default="steel", choices=("steel", "aluminium")),
-          Arg("p_need_bar_abs", "number", "bar abs", "pressure the jet needs; the table marks when it is lost",
-              default=None, gt=0),
+          Arg("p_need_bar_abs", "number", "bar abs", "pressure the jet needs; the table marks when it is lost; "
+              "empty: the standard atmosphere (below it no gas leaves the canister)", default=None, gt=0),
           Arg("rows", "number", "-", "rows of the table after its header", default=11, low=2, high=200,
               integer=True)],
     returns=Returns("table", "-", "header row, then rows of minutes, canister °C, bar abs, liquid g left, "
@@ -146,7 +146,8 @@ def fs_canister_chill(gas, liquid_g, shell_g, flow_g_min, minutes, ambient_c, sh
     from fuelsys import gas_start
 
     fluid = _get(gas)
-    need = None if p_need_bar_abs is None else float(p_need_bar_abs) * 1e5
+    # without a stated need, gas still flows only while the canister is above the air outside it
+    need = P_ATM if p_need_bar_abs is None else float(p_need_bar_abs) * 1e5
     out = gas_start.canister_chill(fluid, float(liquid_g) / 1e3, float(shell_g) / 1e3,
                                    float(flow_g_min) / 6e4, float(minutes) * 60.0,
                                    float(ambient_c) + T0_C, shell=str(shell).strip().lower(),
@@ -155,7 +156,7 @@ def fs_canister_chill(gas, liquid_g, shell_g, flow_g_min, minutes, ambient_c, sh
     table = [header]
     for t, T, p, m, q in zip(out["time"], out["temperature"], out["pressure"], out["liquid_mass"],
                              out["heat_gain"]):
-        ok = "yes" if need is None or p >= need else "no"
+        ok = "yes" if p >= need else "no"
         if m <= 0 and t > 0:
             ok = "empty"
         table.append([t / 60.0, T - T0_C, p / 1e5, m * 1e3, q, ok])
