@@ -124,3 +124,16 @@ def test_integer_bounds():
     assert adapt.call_spec(spec, 2) == 3.0
     assert adapt.call_spec(spec, 2.5) == "FS error: n must be a whole number >= 1 (got 2.5)"
     assert not math.isnan(adapt.call_spec(spec, 1))
+
+
+def test_range_argument_refuses_a_gap_between_values():
+    """A blank between values would shift every later value (needle 3's flow shown against needle 4)."""
+    spec = _spec(lambda v: [[float(x)] for x in v], [Arg("v", "range", "mm", "values", gt=0)], kind="table")
+    assert adapt.call_spec(spec, [[1.0], [None], [3.0]]).startswith("FS error: v: cell 2 of the range is empty")
+    assert adapt.call_spec(spec, [[1.0], [3.0], [None], [""]]) == [[1.0], [3.0]]  # trailing blanks are fine
+
+
+def test_single_empty_cell_range_is_an_empty_cell():
+    """xlwings reads an empty cell given as an argument as [[None]] (ndim=2)."""
+    assert adapt.call_spec(SCALE, [[3.0]], [[None]]) == [[6.0]]  # the default k = 2 applies
+    assert adapt.call_spec(SCALE, [[None]]) == "FS error: x is empty; a number in mm is required"

@@ -140,19 +140,33 @@ def _elementwise_arg(arg: catalogue.Arg, value):
     return np.array(v, dtype=float if arg.kind == "number" else object), np.array(e, dtype=object)
 
 
+def _blank(v) -> bool:
+    return v is None or (isinstance(v, str) and v.strip() == "")
+
+
 def _range_arg(arg: catalogue.Arg, value) -> np.ndarray:
+    """A whole range as a 1-D array, in reading order.
+
+    Blank cells after the last number are dropped (a range may be drawn
+    larger than the data), but a blank between numbers is refused: the values
+    are positions (needle 3, test point 5) and dropping one would move every
+    later value to the wrong row.
+    """
     grid = _as_grid(value) if _is_range(value) else [[value]]
-    out = []
-    for row in grid:
-        for v in row:
-            if v is None or (isinstance(v, str) and v.strip() == ""):
-                continue
-            x, err = _number_or_error(arg, v)
-            if err:
-                raise CellError(err)
-            out.append(x)
-    if not out:
+    flat = [v for row in grid for v in row]
+    while flat and _blank(flat[-1]):
+        flat.pop()
+    if not flat:
         raise CellError(f"{arg.name} holds no numbers; a range of numbers in {arg.unit} is required")
+    out = []
+    for k, v in enumerate(flat, start=1):
+        if _blank(v):
+            raise CellError(f"{arg.name}: cell {k} of the range is empty; fill it, or end the range before it "
+                            "(a gap would move the later values to the wrong rows)")
+        x, err = _number_or_error(arg, v)
+        if err:
+            raise CellError(err)
+        out.append(x)
     return np.array(out, dtype=float)
 
 
@@ -223,6 +237,13 @@ def _bind(spec: catalogue.Spec, cells: tuple) -> list:
     values = list(cells) + [None] * (len(spec.args) - len(cells))
     bound = []
     for arg, v in zip(spec.args, values):
+        if _is_range(v) and arg.kind not in ("range", "cells"):
+            try:  # a single-cell range holding an empty cell is an empty cell (xlwings passes [[None]])
+                grid = _as_grid(v)
+                if len(grid) == 1 and len(grid[0]) == 1 and _blank(grid[0][0]):
+                    v = None
+            except CellError:
+                pass
         empty = v is None or (isinstance(v, str) and v == "")
         if empty and not arg.required:
             v = _Default(arg.default)
