@@ -1,6 +1,6 @@
 """Size the fuel system of the demo engine through the fuelsys Python API.
 
-The engine (the "Moorhen MT-80") and its club are a scenario of our own
+The engine (the "Moorhen") and its club are a scenario of our own
 invention: every input figure comes from :mod:`fuelsys.demo` and is fictional.
 The script works in SI throughout and evaluates all operating points in one
 vectorised call per step; ``fuelsys demo`` builds the same system as a

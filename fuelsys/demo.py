@@ -1,7 +1,7 @@
 """The demo engine: a scenario of our own invention.
 
-The *Moorhen MT-80* is a fictional 80 N-class turbojet built by the members of
-the fictional *Lindale Vale Model Engineering Club*.  Every number here is
+The *Moorhen* is a fictional 80 N-class turbojet built by the members of the
+fictional *Kettlebeck Model Engineering Club*.  Every number here is
 invented for the demo (plausible for the engine class, but no real engine's
 data): it fills the starter workbook and ``examples/``, and ``fuelsys demo``
 sizes its fuel system.  Replace them with your own engine's figures.
@@ -9,8 +9,8 @@ sizes its fuel system.  Replace them with your own engine's figures.
 
 from __future__ import annotations
 
-ENGINE_NAME = "Moorhen MT-80 (fictional demo engine)"
-CLUB_NAME = "Lindale Vale Model Engineering Club (fictional)"
+ENGINE_NAME = "Moorhen (fictional 80 N-class demo turbojet)"
+CLUB_NAME = "Kettlebeck Model Engineering Club (fictional)"
 
 #: engine, invented: design point and operating points from idle to full power
 ENGINE = {
@@ -99,8 +99,8 @@ GAS = {
 COMBUSTOR = {
     "openings": (
         ("tubes", 6, None),
-        ("primary", 10, 3.0),
+        ("primary", 12, 4.0),
         ("secondary", 12, 4.5),
-        ("dilution", 20, 6.5),
+        ("dilution", 20, 8.0),
     ),
 }

@@ -41,8 +41,10 @@ def test_contract_names_and_argument_orders():
     assert sig["FS_BORE_FROM_TEST"][:6] == ["volume_ml", "time_s", "dp_bar", "length_mm", "fluid", "temp_c"]
     assert sig["FS_MANIFOLD_SPLIT"][:9] == ["bores_mm", "length_mm", "supply_bar_gauge", "case_bar_gauge",
                                             "ring_bore_mm", "ring_dia_mm", "fuel", "temp_c", "oil_pct"]
-    assert sig["FS_TOLERANCE_SPREAD"] == ["gauge", "wall", "needles", "length_mm", "dp_bar", "fuel", "temp_c",
-                                          "bore_tol_mm", "length_tol_mm", "samples", "seed"]
+    # the contract's arguments in order; oil_pct and bore_mm follow as optional extras
+    assert sig["FS_TOLERANCE_SPREAD"][:11] == ["gauge", "wall", "needles", "length_mm", "dp_bar", "fuel", "temp_c",
+                                               "bore_tol_mm", "length_tol_mm", "samples", "seed"]
+    assert sig["FS_TOLERANCE_SPREAD"][11:] == ["oil_pct", "bore_mm"]
     assert sig["FS_LINE_DP"] == ["bore_mm", "length_m", "flow_g_min", "fuel", "temp_c", "k_total", "oil_pct"]
     for n in ("FS_NEEDLE_FLOW", "FS_NEEDLE_DP"):
         assert sig[n][-1] == "entrance" and not funcs[n].args[-1].required
@@ -170,3 +172,13 @@ def test_bad_cells_fail_alone():
     out = call("FS_NEEDLE_FLOW", [[0.3], [-0.3], [0.4]], 25, 2, "kerosene", 15)
     assert isinstance(out[0][0], float) and isinstance(out[2][0], float)
     assert _err(out[1][0])
+
+
+def test_tolerance_study_on_the_sheets_own_needle():
+    """Given the bore the sheet uses and the oil, the study's nominal needle is FS_NEEDLE_FLOW's needle."""
+    t = call("FS_TOLERANCE_SPREAD", 23, "normal", 6, 30, 3.0, "kerosene", -5, 0.02, 0.5, 500, 1, 5, 0.317)
+    rows = {r[0]: r[1] for r in t}
+    assert rows["nominal bore"] == pytest.approx(0.317, rel=1e-12)
+    assert rows["nominal flow per needle"] == pytest.approx(call("FS_NEEDLE_FLOW", 0.317, 30, 3.0, "kerosene", -5, 5),
+                                                            rel=1e-12)
+    assert call("FS_NEEDLE_FLOW", 0.317, 30, 3.0, "air", 15).startswith("FS error: fuel: air is a gas")

@@ -62,7 +62,8 @@ def sheet_start(wb: Workbook, bk) -> None:
         "2. Work through the sheets from left to right: engine, fuel, needles, vaporiser, pump, gas start.",
         "3. A result that cannot be computed shows a text starting 'FS error:' that says what is wrong.",
         "4. The formulas need the fuelsys functions: in LibreOffice the fuelsys extension, in Excel the xlwings "
-        "add-in, or anywhere 'fuelsys recalc BOOK.xlsx', which stores the numbers in the file.",
+        "add-in; 'fuelsys recalc BOOK.xlsx' computes them anywhere and stores the numbers in the file. Single "
+        "results then show in any spreadsheet program; tables (array formulas) need the functions to show.",
         "5. 'fuelsys check BOOK.xlsx' tells whether the stored numbers still match the inputs.",
         "6. The Functions sheet lists every fuelsys function with its arguments and units.",
     ):
@@ -212,7 +213,8 @@ def sheet_fuel(wb, bk):
     for i, (label, value) in enumerate(own, start=2):
         ws.cell(i, 6, label)
         w.cell(i, 7, value, is_input=True)
-    ws.cell(len(own) + 2, 6, "To use it: Formulas > Names, set FuelName to =Fuel!$F$2:$G$10").font = NOTE_FONT
+    ws.cell(len(own) + 2, 6, "To use it, point the name FuelName at =Fuel!$F$2:$G$10 (LibreOffice: Sheet > Named "
+                             "Ranges > Manage; Excel: Formulas > Name Manager)").font = NOTE_FONT
 
 
 def sheet_needles(wb, bk):
@@ -267,7 +269,9 @@ def sheet_needles(wb, bk):
     full_supply = f"G{bk.needle_rows[-1]}"
     w.result("supply pressure at the feed", f"={full_supply}", "bar gauge", name="RingSupplyBar",
              number_format="0.000")
-    w.note("Needle bores in order round the ring from the feed (a measured bore per needle is better):")
+    w.note(f"Needle bores in order round the ring from the feed (a measured bore per needle is better). The table "
+           f"holds {int(bk.s.NEEDLES['count'])} rows: for another needle count add or remove rows and widen the "
+           "formula's range.")
     w.header_row(["needle", "bore [mm]", "flow [g/min]", "against mean [%]"])
     first = w.row
     count = int(bk.s.NEEDLES["count"])
@@ -292,7 +296,7 @@ def sheet_needles(wb, bk):
     w.input("length tolerance (half band)", "LengthTolMm", n["length_tol_mm"], "mm", low=0, high=20)
     r = w.row
     formula = (f"=FS_TOLERANCE_SPREAD(NeedleGauge,NeedleWall,NeedleCount,NeedleLengthMm,C{bk.needle_rows[-1]},"
-               f"FuelName,ColdC,BoreTolMm,LengthTolMm,2000,1)")
+               f"FuelName,ColdC,BoreTolMm,LengthTolMm,2000,1,OilPct,NeedleBoreMm)")
     ws[f"A{r}"] = ArrayFormula(f"A{r}:C{r + 12}", formula)
     bk.cells["tolerance: spread between needles (CV) [%]"] = f"Needles!$B${r + 4}"
     w.row = r + 13
@@ -303,6 +307,7 @@ def sheet_needles(wb, bk):
     w.input("test pressure drop", "BenchDpBar", dp, "bar", low=0.05, high=20)
     w.input("test liquid temperature", "BenchTempC", temp, "°C", low=0, high=60)
     w.input("test liquid", "BenchFluid", "water", "", choices=("water", "kerosene"))
+    w.note(f"One row per needle ({len(vols)} rows); add or remove rows, and widen the check's range, for another set.")
     w.header_row(["needle", "collected [mL]", "effective bore [mm]", "against median [%]", "check"])
     first = w.row
     last = first + len(vols) - 1
@@ -363,6 +368,7 @@ def sheet_vaporiser(wb, bk):
             w.cell(r, j, f"=FS_VAPORISER(TubeBoreMm,TubeLengthMm,C{r},B{r},{_eng(bk, 'G', i)},{_eng(bk, 'H', i)},"
                          f"WallC,FuelName,OilPct,\"{item}\",TubeShape)", number_format=fmt)
         w.row += 1
+    bk.vap_rows = list(range(first, w.row))
     verdict_col = col(3 + len(items))
     bk.verdict_ranges.append(("Vaporiser", f"{verdict_col}{first}:{verdict_col}{w.row - 1}"))
     ws.column_dimensions[verdict_col].width = 90
@@ -417,28 +423,36 @@ def sheet_combustor(wb, bk):
     for k, (zone, count, dia) in enumerate(openings):
         r = first + k
         w.cell(r, 1, zone, is_input=True)
-        w.cell(r, 2, count, is_input=True)
-        w.cell(r, 3, "=TubeBoreMm" if dia is None else dia, is_input=dia is not None, number_format="0.00")
-        w.cell(r, 4, None, is_input=True)
+        tube = dia is None  # the vaporiser tubes' inlets: count, bore and Cd from the needles and tube sheets
+        w.cell(r, 2, "=NeedleCount" if tube else count, is_input=not tube)
+        w.cell(r, 3, "=TubeBoreMm" if tube else dia, is_input=not tube, number_format="0.00")
+        w.cell(r, 4, "=TubeCd" if tube else None, is_input=not tube)
     last = first + len(openings) - 1
     ws[f"F{first}"] = ArrayFormula(f"F{first}:G{last}",
                                    f"=FS_ZONE_AIR(B{first}:B{last},C{first}:C{last},D{first}:D{last},"
                                    f"A{first}:A{last})")
     w.row = last + 1
-    w.result("primary share (tubes + primary holes)", f"=G{first}+G{first + 1}", "-", name="PrimaryShare",
-             number_format="0.000")
-    w.result("secondary share", f"=G{first + 2}", "-", name="SecondaryShare", number_format="0.000")
+    share = f"INDEX($G${first}:$G${last},MATCH(\"{{}}\",$F${first}:$F${last},0))"
+    w.result("tubes' share", "=" + share.format("tubes"), "-", name="TubeShare", number_format="0.000")
+    w.result("primary share (tubes + primary holes)", "=TubeShare+" + share.format("primary"), "-",
+             name="PrimaryShare", number_format="0.000")
+    w.result("secondary share", "=" + share.format("secondary"), "-", name="SecondaryShare", number_format="0.000")
     bk.cells["primary-zone air share [-]"] = f"Combustor!$B${w.row - 2}"
     w.heading("From idle to full power", sub=True)
-    w.header_row(["point", "fuel burned [g/min]", "primary φ", "primary flame [°C]", "secondary φ",
-                  "secondary zone [°C]", "exit, mixed out [°C]", "turbine inlet set [°C]", "exit - set [K]"])
+    w.note("Primary φ counts all the fuel; the secondary zone and the exit count the fuel burned (fuel x "
+           "combustion efficiency), so the exit comes back to the turbine inlet the fuel demand was set for. The "
+           "last two columns check the liner against the engine: the air the openings pass at the set liner "
+           "pressure drop (from the tubes' air), and the drop that would pass the engine's air.")
+    w.header_row(["point", "fuel burned [g/min]", "primary φ", "primary flame [°C]", "secondary φ (burned)",
+                  "secondary zone [°C]", "exit, mixed out [°C]", "turbine inlet set [°C]", "exit - set [K]",
+                  "liner air at set Δp [g/s]", "Δp for engine air [%]"])
     op_first = w.row
     for i in range(bk.points):
         r = w.row
         air, t3, p3 = _eng(bk, "C", i), _eng(bk, "H", i), _eng(bk, "G", i)
         w.cell(r, 1, f"={_eng(bk, 'A', i)}")
         w.cell(r, 2, f"={_eng(bk, 'I', i)}*CombustionEff", number_format="0.0")
-        w.cell(r, 3, f"=FS_ZONE_PHI(B{r},{air},PrimaryShare,FuelName)", number_format="0.000")
+        w.cell(r, 3, f"=FS_ZONE_PHI({_eng(bk, 'I', i)},{air},PrimaryShare,FuelName)", number_format="0.000")
         w.cell(r, 4, f"=FS_FLAME_TEMP(FuelName,C{r},{t3},{p3})", number_format="0")
         w.cell(r, 5, f"=FS_ZONE_PHI(B{r},{air},PrimaryShare+SecondaryShare,FuelName)", number_format="0.000")
         w.cell(r, 6, f"=FS_FLAME_TEMP(FuelName,E{r},{t3},{p3},\"complete\")", number_format="0")
@@ -447,10 +461,14 @@ def sheet_combustor(wb, bk):
                      f"SecondaryShare),B{r}/60/({air}*(PrimaryShare+SecondaryShare)),FuelName)", number_format="0")
         w.cell(r, 8, f"={_eng(bk, 'D', i)}", number_format="0")
         w.cell(r, 9, f"=G{r}-H{r}", number_format="0.0")
+        w.cell(r, 10, f"=Vaporiser!B{bk.vap_rows[i]}*NeedleCount/TubeShare", number_format="0.0")
+        # orifice flow goes as the root of the pressure drop (incompressible, Lefebvre & Ballal ch. 4)
+        w.cell(r, 11, f"=LinerDpPct*({air}/J{r})^2", number_format="0.00")
         w.row += 1
     op_last = w.row - 1
     bk.cells["primary flame at full power [°C]"] = f"Combustor!$D${op_last}"
     bk.cells["primary φ at full power"] = f"Combustor!$C${op_last}"
+    bk.cells["liner Δp that passes the engine's air at full power [%]"] = f"Combustor!$K${op_last}"
 
     bars = BarChart()
     bars.title = "Air share by zone"
@@ -459,7 +477,7 @@ def sheet_combustor(wb, bk):
     bars.set_categories(Reference(ws, min_col=6, min_row=first, max_row=last))
     bars.legend = None
     bars.height, bars.width = 7, 11
-    ws.add_chart(bars, "K3")
+    ws.add_chart(bars, "M3")
     temps = ScatterChart()
     temps.title = "Zone temperatures from idle to full power"
     temps.x_axis.title = "shaft speed [rpm]"
@@ -471,7 +489,7 @@ def sheet_combustor(wb, bk):
         ser.marker.symbol = "circle"
         temps.series.append(ser)
     temps.height, temps.width = 8, 14
-    ws.add_chart(temps, "K18")
+    ws.add_chart(temps, "M18")
 
 
 def sheet_pump(wb, bk):
@@ -517,7 +535,7 @@ def sheet_pump(wb, bk):
                number_format="0.000")
         w.cell(r, 7, f"=FS_PUMP_VOLTS(PumpFit,B{r},F{r},FuelName,ColdC,OilPct)", number_format="0.00")
         w.cell(r, 8, f"=BatteryV-G{r}", number_format="0.00")
-        w.cell(r, 9, f"=IF(H{r}>=0,\"ok\",\"fails: short by \"&ROUND(-H{r},2)&\" V\")")
+        w.cell(r, 9, f"=IF(ISNUMBER(G{r}),IF(H{r}>=0,\"ok\",\"fails: short by \"&ROUND(-H{r},2)&\" V\"),G{r})")
         w.row += 1
     op_last = w.row - 1
     bk.verdict_ranges.append(("Pump", f"I{op_first}:I{op_last}"))
@@ -627,7 +645,7 @@ def _verdict_formatting(wb, bk):
         ws = wb[sheet]
         top_left = rng.split(":")[0]
         for text, fill in (("ok", green), ("good", green), ("yes", green), ("marginal", amber), ("fail", red),
-                           ("poor", red), ("ODD", red), ("no", red), ("FS error", red)):
+                           ("poor", red), ("ODD", red), ("no", red), ("empty", red), ("FS error", red)):
             ws.conditional_formatting.add(
                 rng, FormulaRule(formula=[f'LEFT({top_left},{len(text)})="{text}"'], fill=fill, stopIfTrue=True))
 

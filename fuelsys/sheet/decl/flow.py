@@ -49,6 +49,9 @@ def _entrance(text):
 
 def _props(fuel, temp_c, oil_pct):
     """Liquid density [kg/m³] and viscosity [Pa·s] of the fuel (with oil) at temp_c [°C]."""
+    if getattr(fuel, "name", "") == "air":
+        raise FuelsysInputError("fuel: air is a gas; the needle and line models are for liquids "
+                                "(for a gas jet use FS_GAS_JET_FLOW)")
     f = fuel.with_oil(oil_pct) if oil_pct else fuel
     T = f.check_temperature(np.asarray(temp_c, dtype=float) + T0_C, "temp_c")
     return f.density(T), f.dynamic_viscosity(T)
@@ -280,7 +283,10 @@ def _default_bore_tol_mm(gauge: int) -> float:
           Arg("samples", "number", "-", "sets drawn (samples x needles at most 1e6)", default=2000, integer=True,
               low=1, high=100000),
           Arg("seed", "number", "-", "seed of the random draw (same seed, same result)", default=1, integer=True,
-              low=0)],
+              low=0),
+          Arg("oil_pct", "number", "% vol", "turbine oil mixed into the fuel", default=0.0, low=0, high=20),
+          Arg("bore_mm", "number", "mm", "nominal bore of the set (measured, or the bore the sheet uses); empty: "
+              "the ISO 9626 minimum plus the tolerance", default=None, gt=0)],
     returns=Returns("table", "-", "labelled rows: nominal and mean flow [g/min], spread between needles "
                     "(CV) [%], worst low and high needle [%], bore sensitivity, validity"),
     source=("Monte Carlo with numpy's PCG64 stream, deviations uniform within the bands, bores centred "
@@ -288,7 +294,7 @@ def _default_bore_tol_mm(gauge: int) -> float:
             f"gauge comparison chart (Wikipedia); needle model: {_NEEDLE_SOURCE}"),
 )
 def fs_tolerance_spread(gauge, wall, needles, length_mm, dp_bar, fuel, temp_c, bore_tol_mm, length_tol_mm,
-                        samples, seed):
+                        samples, seed, oil_pct, bore_mm):
     """Labelled table of the tolerance study; sizes [mm], dp [bar], temperature [°C]."""
     from fuelsys.flow.tolerance import tolerance_study
     from fuelsys.flow.tubing import needle_bore, od_range
@@ -296,9 +302,12 @@ def fs_tolerance_spread(gauge, wall, needles, length_mm, dp_bar, fuel, temp_c, b
     g = int(gauge)
     if int(samples) * int(needles) > 1_000_000:
         raise FuelsysInputError(f"samples x needles must be at most 1e6 (got {int(samples) * int(needles):g})")
-    bore_min = needle_bore(g, wall)
     tol = _default_bore_tol_mm(g) if bore_tol_mm is None else float(bore_tol_mm)
-    rho, mu = _props(fuel, temp_c, 0.0)
+    # bore_min is the nominal bore less one tolerance: the band then reaches down to it
+    bore_min = needle_bore(g, wall) if bore_mm is None else float(bore_mm) * 1e-3 - tol * 1e-3
+    if bore_min <= 0:
+        raise FuelsysInputError(f"bore_tol_mm ({tol:g} mm) must be smaller than bore_mm ({float(bore_mm):g} mm)")
+    rho, mu = _props(fuel, temp_c, oil_pct)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ValidityWarning)
         r = tolerance_study(bore_min + tol * 1e-3, length_mm * 1e-3, dp_bar * _BAR, float(rho), float(mu),
