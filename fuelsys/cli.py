@@ -187,10 +187,17 @@ def _cmd_excel_setup(args) -> int:
 def _cmd_functions(args) -> int:
     from fuelsys.sheet import catalogue
 
-    for spec in catalogue.functions().values():
-        if args.name and spec.name != args.name.upper():
-            continue
-        print(spec.help_text() if args.name else f"{spec.signature():70s} {spec.summary}")
+    funcs = catalogue.functions()
+    if args.name:
+        key = args.name.strip().upper()
+        key = key if key.startswith("FS_") else "FS_" + key
+        if key not in funcs:
+            print(f"fuelsys functions: no function {args.name}; 'fuelsys functions' lists them", file=sys.stderr)
+            return 2
+        print(funcs[key].help_text())
+        return 0
+    for spec in funcs.values():
+        print(f"{spec.signature():70s} {spec.summary}")
     return 0
 
 

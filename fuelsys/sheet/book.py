@@ -66,7 +66,15 @@ def _edited(existing: Path, fresh: Path) -> bool:
         diffs = diff_books(existing, fresh)
     except Exception:  # not a book we can read: treat it as the user's
         return True
-    return any(d.kind in ("input", "formula", "sheet") and d.sheet != "Start here" for d in diffs)
+    # only the build date on the first sheet may differ between two unedited demo books
+    return any(d.kind in ("input", "formula", "sheet") and not _is_build_date(d) for d in diffs)
+
+
+def _is_build_date(d) -> bool:
+    import re
+
+    return d.sheet == "Start here" and all(isinstance(v, str) and re.fullmatch(r"\d{4}-\d\d-\d\d", v)
+                                           for v in (d.old, d.new))
 
 
 def write_demo(folder=".", progress=None) -> Path:
@@ -97,8 +105,10 @@ def write_demo(folder=".", progress=None) -> Path:
 def new_book(path, force: bool = False) -> Path:
     """Start a builder's own book as a copy of the committed starter (byte for byte)."""
     path = Path(path)
-    if path.suffix.lower() not in (".xlsx", ".xlsm"):
+    if path.suffix.lower() != ".xlsx":
         raise ValueError(f"a new book needs the .xlsx extension (got {path.name})")
+    if not path.parent.is_dir():
+        raise ValueError(f"the folder {path.parent} does not exist")
     if path.exists() and not force:
         raise FileExistsError(f"{path} exists already; choose another name or use --force")
     tmp = path.with_name(f".{path.name}.tmp-{os.getpid()}.xlsx")

@@ -248,10 +248,11 @@ def _recalc_libreoffice(args) -> int:
              f"(fuelsys.sheet.calc_addin.runner.recalc_book could not be imported: {exc}); "
              "use --engine builtin")
         return 2
-    if not args.output:
+    if not args.output or os.path.realpath(args.output) == os.path.realpath(args.book):
         # LibreOffice saves the whole workbook anew, which can change parts of it that the built-in
         # engine keeps byte for byte: it never overwrites the builder's own file
-        _err("fuelsys recalc: the LibreOffice engine saves the whole workbook anew; give --output OTHER.xlsx "
+        _err("fuelsys recalc: the LibreOffice engine saves the whole workbook anew; give --output OTHER.xlsx, "
+             "another file than the book "
              "(your book stays as it is), or use the built-in engine, which changes only the values")
         return 2
     try:

@@ -1376,6 +1376,9 @@ class Report:
     written: bool
     #: (cell, notes) of the cells computed outside a correlation's fitted range
     notes: list = field(default_factory=list)
+    #: cells whose result is an ``FS error:`` text, and cells whose result is an error value (#VALUE! ...)
+    fs_errors: int = 0
+    error_values: int = 0
 
     @property
     def ok(self) -> bool:
@@ -1386,7 +1389,9 @@ class Report:
             "nothing written (fix the cells listed, or allow a partial result)"
         flagged = (f"; {len(self.notes)} cell(s) computed outside a correlation's fitted range"
                    " (--notes lists them)") if self.notes else ""
-        return (f"{os.path.basename(self.path)}: {self.computed} cells computed, "
+        errors = (f", {self.fs_errors} showing an FS error text, {self.error_values} an error value"
+                  if (self.fs_errors or self.error_values) else "")
+        return (f"{os.path.basename(self.path)}: {self.computed} cells computed{errors}, "
                 f"{len(self.skipped)} skipped, {len(self.changed_parts)} sheet part(s) changed, "
                 f"{self.seconds:.2f} s; {where}{flagged}")
 
@@ -1408,15 +1413,17 @@ def recalc_workbook(path, output=None, allow_partial: bool = False, progress=Non
     comp = compute_book(book, progress)
     skipped = comp.skipped_list()
     target = os.fspath(output) if output is not None else os.fspath(path)
+    fs_err = sum(1 for v in comp.values.values() if isinstance(v, str) and v.startswith("FS error:"))
+    err_val = sum(1 for v in comp.values.values() if type(v) is XlError)
     if skipped and not allow_partial:
         return Report(os.fspath(path), None, len(comp.values), skipped, [], time.perf_counter() - t0, False,
-                      comp.notes_list())
+                      comp.notes_list(), fs_err, err_val)
     updates = {}
     for (si, r, c), v in comp.values.items():
         updates.setdefault(si, {})[(r, c)] = v
     changed = xlsx.write_values(book, updates, target)
     return Report(os.fspath(path), target, len(comp.values), skipped, changed, time.perf_counter() - t0, True,
-                  comp.notes_list())
+                  comp.notes_list(), fs_err, err_val)
 
 
 @dataclass

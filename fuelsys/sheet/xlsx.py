@@ -1022,6 +1022,20 @@ def _write_chunk(fh, chunk: bytes) -> None:
     fh.write(chunk)
 
 
+def open_elsewhere(path: str) -> str | None:
+    """The lock file a spreadsheet program keeps beside a book it has open, if there is one.
+
+    LibreOffice writes ``.~lock.NAME#`` and Excel ``~$NAME`` in the book's
+    folder while the book is open; a book written under an open program would
+    lose the new values at its next save.
+    """
+    folder, name = os.path.split(os.path.realpath(path))
+    for lock in (f".~lock.{name}#", "~$" + name[2:] if len(name) > 2 else "", "~$" + name):
+        if lock and os.path.exists(os.path.join(folder, lock)):
+            return os.path.join(folder, lock)
+    return None
+
+
 def atomic_write(target: str, payload: bytes, mode_from: str | None = None, expect_stat=None) -> None:
     """Write ``payload`` to ``target`` through a temporary file in the same folder and :func:`os.replace`.
 
@@ -1031,6 +1045,10 @@ def atomic_write(target: str, payload: bytes, mode_from: str | None = None, expe
     """
     target = os.path.realpath(target)
     folder = os.path.dirname(target) or "."
+    lock = open_elsewhere(target)
+    if lock:
+        raise WriteError(f"{os.path.basename(target)} is open in a spreadsheet program ({os.path.basename(lock)} "
+                         "is beside it): close it there first, or write elsewhere with --output; nothing written")
     fd, tmp = tempfile.mkstemp(prefix=".~fuelsys-", suffix=".tmp", dir=folder)
     try:
         with os.fdopen(fd, "wb") as fh:
