@@ -202,6 +202,10 @@ def pressure_ratio(speed_fraction, pr_design, t_inlet=T_ISA, method="euler"):
     return law(speed_fraction, pr_design, t_inlet)
 
 
+#: speed fraction above which the pressure-ratio law is an extrapolation beyond the design point [-]
+OVERSPEED_LIMIT = 1.05
+
+
 def case_pressure(speed_fraction, pr_design, p_ambient=P_ISA, t_inlet=T_ISA, method="euler"):
     """Case (compressor delivery) pressure over speed, gauge.
 
@@ -237,6 +241,8 @@ def case_pressure(speed_fraction, pr_design, p_ambient=P_ISA, t_inlet=T_ISA, met
     1.52
     """
     pa = _finite(p_ambient, "ambient pressure", "Pa")
+    # the similarity law scales from the design point; above design speed it extrapolates
+    warn_validity("compressor similarity law", "speed / design speed", speed_fraction, 0.0, OVERSPEED_LIMIT, "-")
     return _out(pa * (np.asarray(pressure_ratio(speed_fraction, pr_design, t_inlet, method)) - 1.0))
 
 

@@ -214,7 +214,8 @@ def fs_flame_temp(fuel, phi, t_in_c, p_bar_abs, method):
 @spreadsheet_function(
     name="FS_MIX_TEMP", category="combustor",
     summary="Temperature after a hot gas stream and a cold air stream mix (energy balance)",
-    args=[Arg("t_hot_c", "number", "°C", "hot stream temperature", gt=-273.15),
+    args=[Arg("t_hot_c", "number", "°C", "hot stream temperature (the gas polynomials end at 6000 K)",
+              gt=-273.15, high=3726.85),
           Arg("hot_g_s", "number", "g/s", "hot stream mass flow", low=0),
           Arg("t_cold_c", "number", "°C", "cold stream (air) temperature", gt=-273.15),
           Arg("cold_g_s", "number", "g/s", "cold stream mass flow", low=0),
