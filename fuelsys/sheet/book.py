@@ -212,8 +212,9 @@ Using the fuelsys functions live in Excel on Windows (through xlwings)
 Not tested on this project's machines (they run Linux); follow xlwings' own
 documentation where it differs.
 
-1. Install Python 3.11 or newer for Windows, then in a command prompt:
-       py -m pip install "fuelsys[excel]"
+1. Install Python 3.11 or newer for Windows, then in a command prompt, in
+   the folder that holds your copy of the fuelsys repository:
+       py -m pip install ".[excel]"
        xlwings addin install
 2. In Excel: File > Options > Trust Center > Trust Center Settings > Macro
    Settings: tick "Trust access to the VBA project object model".
