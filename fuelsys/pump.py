@@ -420,6 +420,8 @@ def fit_pump(flow, dp, volts, mu, winding_ohm=None, kv=None):
     from scipy.optimize import least_squares
 
     q, p, v, m = _test_arrays(flow, dp, volts, mu)
+    if not np.any(q > 0):
+        raise FuelsysInputError("every test flow is zero: the fit needs the flows measured at each voltage")
     if np.ptp(v) <= 1e-6 * np.max(v):
         raise FuelsysInputError(
             f"all test points are at one voltage ({v[0]:g} V): the fit needs points at two or more voltages "
@@ -452,8 +454,12 @@ def fit_pump(flow, dp, volts, mu, winding_ohm=None, kv=None):
         return b / s
 
     b = lin_start()
-    b1 = b[1] if b[1] > 0 else np.ptp(v) / max(np.ptp(q), 1e-12)
-    phi0 = 1.0 / b1
+    if not b[1] > 0:
+        # a gear pump's flow rises with its motor's voltage at a given pressure; these points say otherwise
+        raise FuelsysInputError(
+            "in these test points the flow does not rise with the voltage at a given pressure, as a gear pump's "
+            "does: check that flows, pressures and volts are in the same rows")
+    phi0 = 1.0 / b[1]
     if lumped:
         names = ["phi", "v0", "dp_volts"]
         x0 = np.array([phi0, max(b[0], 0.0), max(b[2], 0.0)])

@@ -213,3 +213,13 @@ def test_sheet_pump_fit_errors():
         "FS error: a pump fit needs at least 4 test points")
     assert "one voltage" in call("FS_PUMP_FIT", four, [[1.0], [2.0], [3.0], [4.0]], [[12.0]] * 4)
     assert call("FS_PUMP_VOLTS", [["rms_v"], [0.1]], 100.0, 2.0).startswith("FS error: coefficients")
+
+
+def test_fit_refuses_points_that_no_gear_pump_gives():
+    """Flow must rise with voltage (positive displacement; Wilson 1949): falling flows, or none, are refused."""
+    from fuelsys.sheet import call
+
+    zero = call("FS_PUMP_FIT", [[0], [0], [0], [0]], [[1], [2], [3], [1]], [[3], [6], [9], [6]])
+    assert zero.startswith("FS error: every test flow is zero")
+    falling = call("FS_PUMP_FIT", [[300], [200], [100], [250]], [[1], [2], [1], [2]], [[3], [6], [9], [5]])
+    assert falling.startswith("FS error: in these test points the flow does not rise with the voltage")
