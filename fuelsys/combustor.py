@@ -767,7 +767,7 @@ def combustor(liner, fuel_flow, t3, p3, fuel="kerosene", *, air_flow=None, liner
     >>> round(r.primary_share, 3), round(r.phi_primary, 2)
     (0.206, 1.33)
     >>> round(r.t_primary - 273.15), round(r.t_exit - 273.15)
-    (1917, 845)
+    (1912, 845)
     """
     if not isinstance(liner, Liner):
         raise FuelsysInputError("liner must be a Liner (see Liner.from_openings)")

@@ -15,6 +15,7 @@ import numpy as np
 import pytest
 
 from fuelsys.errors import FuelsysInputError, ValidityWarning
+from fuelsys.fuels import gases
 from fuelsys.fuels.gases import GAS_NAMES, CoolPropFluid, get_gas, is_gas_name
 
 CP = pytest.importorskip("CoolProp.CoolProp")
@@ -300,7 +301,7 @@ def test_pure_vapour_mole_fraction_limited_by_saturation_pressure():
     T, P, far = 190.0, 101325.0, 0.5
     vf = g.vapour_fraction(T, P, far)
     assert 0 < vf < 1
-    n_air, n_vap = 1 / 0.0289644, vf * far / g.molar_mass
+    n_air, n_vap = 1 / gases.M_AIR, vf * far / g.molar_mass  # the module's dry air (CIPM-2007)
     # Dalton + Raoult: vapour mole fraction in the gas = p_sat / P
     assert n_vap / (n_vap + n_air) == pytest.approx(g.vapour_pressure(T) / P, rel=1e-9)
 
@@ -311,7 +312,7 @@ def test_vapour_fraction_against_chemicals_rachford_rice():
     g = get_gas("lpg-50-50")
     T, P, far = 235.0, 101325.0, 1.0
     x = g.mole_fractions
-    n_f, n_a = far / g.molar_mass, 1 / 0.0289644
+    n_f, n_a = far / g.molar_mass, 1 / gases.M_AIR
     zs = [n_a / (n_f + n_a)] + [n_f * x[k] / (n_f + n_a) for k in ("propane", "n-butane")]
     Ks = [1e12, get_gas("propane").vapour_pressure(T) / P, get_gas("butane").vapour_pressure(T) / P]
     V, xs, ys = Rachford_Rice_solution(zs, Ks)   # chemicals (PyPI) Rachford-Rice solver

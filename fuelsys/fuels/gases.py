@@ -32,7 +32,7 @@ formula and NIST standard enthalpies of formation; ``lhv`` is that of the
 liquid at 25 °C, the reference state of :meth:`CoolPropFluid.enthalpy`
 (lower by the enthalpy from saturated liquid to ideal gas, 0.37 MJ/kg for
 propane), so that energy balances with :meth:`enthalpy` count the
-vaporisation once.  ``stoich_far`` from the formula with dry air of ISO 2533.
+vaporisation once.  ``stoich_far`` from the formula with fuelsys's dry air (CIPM-2007, :mod:`fuelsys.thermo`).
 Water and air are not fuels: both raise :class:`FuelsysInputError`.
 
 Gas-phase methods (for the vaporiser, engine and gas-jet modules)
@@ -149,6 +149,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from fuelsys import thermo as _thermo
+
 from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.fuels.base import P_ATM, T0_C, Fuel, as_float
 
@@ -162,10 +164,10 @@ R_GAS = 8.314462618
 HF_CO2 = -393.51e3
 #: standard enthalpy of formation of H2O gas at 298.15 K [J/mol] (CODATA Key Values 1989)
 HF_H2O_GAS = -241.826e3
-#: mole fraction of O2 in dry air (ISO 2533:1975 standard atmosphere composition)
-X_O2_AIR = 0.209476
-#: molar mass of dry air [kg/mol] (ISO 2533:1975)
-M_AIR = 0.0289644
+#: mole fraction of O2 in dry air and its molar mass [kg/mol]: the one dry air of fuelsys
+#: (CIPM-2007 composition, see fuelsys.thermo), so stoichiometric ratios agree across modules
+X_O2_AIR = _thermo.AIR_MOLE_FRACTION["O2"]
+M_AIR = _thermo.M_AIR
 #: enthalpy reference temperature [K]: liquid (or, for air, gas) at 25 °C has h = 0
 T_REF = 298.15
 #: fraction of the critical temperature up to which liquid properties are given
@@ -737,8 +739,8 @@ class CoolPropFluid(Fuel):
     def stoich_far(self) -> float:
         """Stoichiometric fuel/air mass ratio with dry air [kg/kg].
 
-        (c + h/4) mol O2 per mol of C_cH_h, air with 20.9476 % O2 by mole and
-        M = 28.9644 g/mol (ISO 2533:1975).
+        (c + h/4) mol O2 per mol of C_cH_h, with the O2 share and molar mass of
+        fuelsys's dry air (CIPM-2007 composition, :mod:`fuelsys.thermo`).
         """
         self._require_fuel("stoichiometric fuel/air ratio")
         self._ensure()

@@ -49,6 +49,8 @@ import math
 
 import numpy as np
 
+from fuelsys import thermo as _thermo
+
 from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.fuels.base import P_ATM, T0_C, Fuel, as_float
 
@@ -57,10 +59,10 @@ from fuelsys.fuels.base import P_ATM, T0_C, Fuel, as_float
 # ---------------------------------------------------------------------------
 #: molar gas constant [J/(mol K)] (CODATA 2018)
 R_GAS = 8.314462618
-#: molar mass of dry air [kg/mol] (Lemmon et al. 2000, as in CoolProp's "Air")
-M_AIR = 28.9586e-3
-#: mole fraction of O2 in dry air [-] (Lemmon et al. 2000 composition)
-Y_O2_AIR = 0.2096
+#: molar mass of dry air [kg/mol] and its O2 mole fraction [-]: the one dry air of fuelsys
+#: (CIPM-2007 composition, see fuelsys.thermo), so stoichiometric ratios agree across modules
+M_AIR = _thermo.M_AIR
+Y_O2_AIR = _thermo.AIR_MOLE_FRACTION["O2"]
 #: molar masses of C, H, O, O2 [kg/mol] (IUPAC conventional atomic weights)
 M_C, M_H, M_O = 12.011e-3, 1.008e-3, 15.999e-3
 M_O2 = 2 * M_O
