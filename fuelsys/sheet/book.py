@@ -18,7 +18,7 @@ from fuelsys.sheet.starter import STARTER_PATH
 DEMO_NAME = "fuelsys-demo.xlsx"
 
 
-def _label_of(sheet, r: int, c: int) -> str:
+def _label_of(sheet, r: int, c: int, spilled=frozenset()) -> str:
     """A readable label for cell (r, c).
 
     A label row (text in column A, the value in B) is named by its column-A
@@ -34,7 +34,7 @@ def _label_of(sheet, r: int, c: int) -> str:
         v = sheet.cells.get((rr, c))
         if v is None:
             break
-        if isinstance(v, str) and v.strip() and (rr, c) not in sheet.formulas:
+        if isinstance(v, str) and v.strip() and (rr, c) not in sheet.formulas and (rr, c) not in spilled:
             header = v.strip()
             break
     return " / ".join(p for p in (row_label, header) if p)
@@ -191,7 +191,7 @@ def diff_books(a_path, b_path, rel_tol: float = 1e-9) -> list[Difference]:
         for r, c in keys:
             fa, fb = sa.formulas.get((r, c)), sb.formulas.get((r, c))
             va, vb = sa.cells.get((r, c)), sb.cells.get((r, c))
-            label = _label_of(sb, r, c) or _label_of(sa, r, c)
+            label = _label_of(sb, r, c, spilled) or _label_of(sa, r, c, spilled)
             addr = _cell_address(r, c)
             ta = fa.text if fa is not None else None
             tb = fb.text if fb is not None else None
