@@ -417,6 +417,7 @@ def sheet_combustor(wb, bk):
     w.note("Every liner opening sees the same pressure drop, so the air divides by effective area (holes x Cd x "
            "area). The primary zone gets the vaporiser tubes' air and the primary holes'; the fuel burned is the "
            "fuel flow times the combustion efficiency, as in the engine's fuel demand.")
+    w.note("One row per zone name; the shares below are found by these names.")
     w.header_row(["zone", "holes", "diameter [mm]", "Cd (empty: plain hole)", "", "zone", "air share [-]"])
     first = w.row
     openings = bk.s.COMBUSTOR["openings"]
@@ -432,7 +433,8 @@ def sheet_combustor(wb, bk):
                                    f"=FS_ZONE_AIR(B{first}:B{last},C{first}:C{last},D{first}:D{last},"
                                    f"A{first}:A{last})")
     w.row = last + 1
-    share = f"INDEX($G${first}:$G${last},MATCH(\"{{}}\",$F${first}:$F${last},0))"
+    # found by the zone names typed in column A (one row per zone), whose order FS_ZONE_AIR keeps
+    share = f"INDEX($G${first}:$G${last},MATCH(\"{{}}\",$A${first}:$A${last},0))"
     w.result("tubes' share", "=" + share.format("tubes"), "-", name="TubeShare", number_format="0.000")
     w.result("primary share (tubes + primary holes)", "=TubeShare+" + share.format("primary"), "-",
              name="PrimaryShare", number_format="0.000")
