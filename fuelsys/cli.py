@@ -133,12 +133,19 @@ def _cmd_demo(args) -> int:
     print(f"fuelsys demo: sizing the fuel system of the {demo.ENGINE_NAME}")
     print("(a scenario of our own invention: the engine, its club and every figure in it are fictional)")
     print("computing the demo book ...", flush=True)
-    path = book.write_demo(args.folder)
+    reports = []
+    path = book.write_demo(args.folder, reports=reports)
     rows = book.read_summary(path)
     if path.name != book.DEMO_NAME:
         print(f"(kept the edited {book.DEMO_NAME} that was here; the new demo book has its own name)")
     print(f"wrote {path} ({time.perf_counter() - t0:.1f} s); its Summary sheet says:\n")
     print_summary(rows)
+    notes = reports[-1].notes if reports else []
+    if notes:
+        print(f"\n{len(notes)} cell(s) were computed outside a correlation's fitted range, for example:")
+        for cell, texts in notes[:3]:
+            print(f"  {cell}: {texts[0]}")
+        print(f"  ('fuelsys recalc {path.name} --notes' lists them all)")
     print(f"\nOpen {path.name} in a spreadsheet program to see every formula, chart and verdict;"
           " 'fuelsys new MYBOOK.xlsx' starts a book for your own engine.\n")
     print(CAUTIONS)

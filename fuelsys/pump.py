@@ -49,11 +49,11 @@ References
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
-from fuelsys.errors import FuelsysInputError
+from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.arrays import as_float as _out
 from fuelsys.arrays import checked_array as _arr
 
@@ -193,6 +193,14 @@ class GearPump:
     dp_volts: float
     mu_fit: float = float("nan")
     motor_k: float = float("nan")
+    #: lowest and highest voltage of the test points the pump was fitted to; NaN when unknown [V]
+    v_tested: tuple = (float("nan"), float("nan"))
+
+    def flag_untested(self, volts) -> None:
+        """Warn (ValidityWarning) where ``volts`` [V] lies outside the tested voltages: an extrapolation."""
+        lo, hi = self.v_tested
+        if np.isfinite(lo) and np.isfinite(hi):
+            warn_validity("pump fit (voltages of its test points)", "motor voltage", volts, lo, hi, "V")
 
     @classmethod
     def physical(cls, phi, winding_ohm, friction_current, slip, motor_k=float("nan")):
@@ -544,6 +552,7 @@ def fit_pump(flow, dp, volts, mu, winding_ohm=None, kv=None):
     else:
         R = r_fix if r_known else x[1]
         pump = GearPump.physical(x[0], R, x[names.index("friction_current")], x[names.index("slip")], mk)
+    pump = replace(pump, v_tested=(float(np.min(v)), float(np.max(v))))
     return PumpFit(pump=pump, rms_volts=float(np.sqrt(np.mean(res**2))), r_squared=r2, condition=cond,
                    std_errors=std, n_points=n, residuals=res, mu_test=float(np.mean(m)))
 
@@ -733,13 +742,13 @@ def fit_row(fit: PumpFit, temp_c=None):
 
     labels = ["flow_per_volt_ml_min_v", "winding_ohm", "friction_a", "slip_mm3", "v0_v", "dp_v_per_bar",
               "fit_viscosity_mpas", "motor_k_mnm_a", "displacement_ml_rev", "rms_v", "r2", "condition",
-              "points"]
+              "points", "tested_min_v", "tested_max_v"]
     mu = fit.mu_test if np.isfinite(fit.mu_test) else p.mu_fit
     dp_volts = p.dp_volts if not p.separable else float(p._dp_coef(mu))
     values = [p.phi * 6e7, num(p.winding_ohm), num(p.friction_current), num(p.slip, 1e9), p.v0,
               dp_volts * 1e5, num(mu, 1e3), num(p.motor_k, 1e3),
               num(p.displacement * 2 * np.pi, 1e6), fit.rms_volts, fit.r_squared, fit.condition,
-              float(fit.n_points)]
+              float(fit.n_points), num(p.v_tested[0]), num(p.v_tested[1])]
     return [labels, values]
 
 
@@ -810,9 +819,10 @@ def pump_from_row(cells):
     ks = get("slip_mm3", False) / 1e9
     mu = get("fit_viscosity_mpas", False) / 1e3
     mk = get("motor_k_mnm_a", False) / 1e3
+    tested = (get("tested_min_v", False), get("tested_max_v", False))
     if np.isfinite(ks) and np.isfinite(r) and np.isfinite(i_f):
-        return GearPump.physical(phi, r, i_f, ks, mk)
+        return replace(GearPump.physical(phi, r, i_f, ks, mk), v_tested=tested)
     if not np.isfinite(mu):
         raise FuelsysInputError("coefficients: a lumped fit needs its fit_viscosity_mpas")
     return GearPump(phi=phi, winding_ohm=float("nan"), friction_current=float("nan"), slip=float("nan"),
-                    v0=v0, dp_volts=dpv, mu_fit=mu, motor_k=mk)
+                    v0=v0, dp_volts=dpv, mu_fit=mu, motor_k=mk, v_tested=tested)

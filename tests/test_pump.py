@@ -223,3 +223,31 @@ def test_fit_refuses_points_that_no_gear_pump_gives():
     assert zero.startswith("FS error: every test flow is zero")
     falling = call("FS_PUMP_FIT", [[300], [200], [100], [250]], [[1], [2], [1], [2]], [[3], [6], [9], [5]])
     assert falling.startswith("FS error: in these test points the flow does not rise with the voltage")
+
+
+def test_volts_outside_the_tested_range_are_flagged():
+    """A fit holds between the voltages it was tested at; beyond them it is an extrapolation, flagged."""
+    import warnings
+
+    from fuelsys.errors import ValidityWarning
+    from fuelsys.sheet import adapt, call
+
+    flows = [[118.2], [247.6], [375.9], [263.4], [104.9], [228.5], [393.4], [365.6]]  # the demo's points (invented)
+    bars = [[1.0], [3.0], [5.0], [1.0], [2.0], [4.0], [2.0], [5.0]]
+    volts = [[3.0], [6.0], [9.0], [6.0], [3.0], [6.0], [9.0], [9.0]]
+    temps = [[12.0]] * 4 + [[28.0]] * 4
+    fit = call("FS_PUMP_FIT", flows, bars, volts, "kerosene", temps)
+    row = dict(zip(fit[0], fit[1]))
+    assert (row["tested_min_v"], row["tested_max_v"]) == (3.0, 9.0)
+    sink = []
+    old = adapt.set_note_sink(sink)
+    try:
+        inside = call("FS_PUMP_VOLTS", fit, 250, 3, "kerosene", 20)
+        assert 3 <= inside <= 9 and not sink
+        call("FS_PUMP_VOLTS", fit, 50, 0.5, "kerosene", 20)
+    finally:
+        adapt.set_note_sink(old)
+    assert sink and "voltages of its test points" in sink[0]
+    with warnings.catch_warnings():
+        warnings.simplefilter("error", ValidityWarning)
+        assert isinstance(call("FS_PUMP_FLOW", fit, 6, 2, "kerosene", 20), float)  # the cell still computes

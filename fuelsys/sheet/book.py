@@ -77,7 +77,7 @@ def _is_build_date(d) -> bool:
                                            for v in (d.old, d.new))
 
 
-def write_demo(folder=".", progress=None) -> Path:
+def write_demo(folder=".", progress=None, reports: list | None = None) -> Path:
     """Build the demo engine's book in ``folder`` (computed) and return its path.
 
     An existing ``fuelsys-demo.xlsx`` is replaced only when it is an unedited
@@ -90,7 +90,7 @@ def write_demo(folder=".", progress=None) -> Path:
     target = folder / DEMO_NAME
     tmp = folder / f".{DEMO_NAME}.tmp-{os.getpid()}.xlsx"
     try:
-        starter.build(tmp, compute=True, title_note="demo")
+        starter.build(tmp, compute=True, title_note="demo", reports=reports)
         k = 0
         while target.exists() and _edited(target, tmp):
             k += 1

@@ -519,8 +519,8 @@ def sheet_pump(wb, bk):
     w.heading("Pump fit", sub=True)
     r = w.row
     formula = f"=FS_PUMP_FIT(B{first}:B{last},C{first}:C{last},D{first}:D{last},FuelName,E{first}:E{last},,,OilPct)"
-    ws[f"A{r}"] = ArrayFormula(f"A{r}:M{r + 1}", formula)
-    w.define("PumpFit", f"$A${r}:$M${r + 1}")
+    ws[f"A{r}"] = ArrayFormula(f"A{r}:O{r + 1}", formula)
+    w.define("PumpFit", f"$A${r}:$O${r + 1}")
     w.row = r + 2
     w.heading("Along the operating line, cold day", sub=True)
     w.header_row(["point", "fuel [g/min]", "case [bar gauge]", "needles [bar]", "line [bar]",
@@ -575,7 +575,7 @@ def sheet_pump(wb, bk):
     chart.x_axis.number_format = "0"
     chart.x_axis.majorUnit = 50
     chart.height, chart.width = 11, 20
-    ws.add_chart(chart, "O3")
+    ws.add_chart(chart, "Q3")
 
 
 def sheet_gas(wb, bk):
@@ -658,7 +658,7 @@ SECTIONS = (sheet_start, sheet_engine, sheet_fuel, sheet_needles, sheet_vaporise
 
 
 def build(path: Path | str = STARTER_PATH, compute: bool = True, scenario=None, title_note: str = "starter",
-          progress=None) -> Path:
+          progress=None, reports: list | None = None) -> Path:
     """Build the starter book at ``path`` and compute its cached values.
 
     ``scenario`` is a module or object with the attributes of
@@ -690,6 +690,8 @@ def build(path: Path | str = STARTER_PATH, compute: bool = True, scenario=None, 
         from fuelsys.sheet.evaluate import recalc_workbook
 
         report = recalc_workbook(path, progress=progress)
+        if reports is not None:
+            reports.append(report)
         if getattr(report, "skipped", None):
             raise RuntimeError(f"the starter book did not compute completely: {report.skipped}")
         from fuelsys.sheet.xlsx import read_book

@@ -209,7 +209,8 @@ def fs_pump_need(flow_g_min, case_bar_gauge, needle_dp_bar, line_dp_bar, head_m,
           _OIL],
     returns=Returns("table", "-", "a row of labels over a row of values: flow per volt (mL/min/V), winding "
                                   "resistance (Ω), friction current (A), slip (mm³), fit viscosity, "
-                                  "RMS error (V), R², condition number, points"),
+                                  "RMS error (V), R², condition number, points, lowest and highest "
+                                  "tested voltage (V)"),
     source="gear pump with laminar slip ∝ Δp/μ and torque DΔp + friction (Wilson 1949), permanent-magnet "
            "DC motor V = RI + kω, T = kI (Fitzgerald, Kingsley & Umans 2003 §7.2); least squares "
            "(scipy.optimize.least_squares), standard errors from the Jacobian (Bates & Watts 1988)",
@@ -312,7 +313,9 @@ def fs_pump_volts(coefficients, flow_g_min, p_bar_gauge, fuel, temp_c, oil_pct):
     pmp = _pump(coefficients)
     T = _kelvin(_liquid(fuel), temp_c)
     q = np.asarray(flow_g_min, dtype=float) / 6e4 / np.asarray(fuel.density(T))
-    return np.asarray(pmp.volts(q, np.asarray(p_bar_gauge) * 1e5, fuel.dynamic_viscosity(T)))
+    v = np.asarray(pmp.volts(q, np.asarray(p_bar_gauge) * 1e5, fuel.dynamic_viscosity(T)))
+    pmp.flag_untested(v)
+    return v
 
 
 @spreadsheet_function(
@@ -357,6 +360,7 @@ def fs_pump_flow(coefficients, volts, p_bar_gauge, fuel, temp_c, oil_pct):
     T = _kelvin(_liquid(fuel), temp_c)
     mu = fuel.dynamic_viscosity(T)
     dp = np.asarray(p_bar_gauge, dtype=float) * 1e5
+    pmp.flag_untested(volts)
     q = np.asarray(pmp.flow(volts, dp, mu))
     if np.any(q <= 0):
         v_open = np.asarray(pmp.volts(0.0, dp, mu))
