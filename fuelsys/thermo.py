@@ -620,12 +620,19 @@ def temperature_from_enthalpy(h, far=0.0, h_to_c=2.0, t_guess=1000.0):
     far_a = np.asarray(far, dtype=float)
     T = np.full(np.broadcast(h, far_a, np.asarray(h_to_c)).shape, float(t_guess))
     low, high, _ = VALIDITY["temperature"]
+    converged = False
     for _ in range(50):
         f = np.asarray(_enthalpy_quiet(T, far_a, h_to_c)) - h
         step = f / np.asarray(_cp_quiet(T, far_a, h_to_c))
         T = np.clip(T - step, 50.0, 2.0 * high)
         if np.all(np.abs(step) < 1e-9 * T):
+            converged = True
             break
+    if not converged or np.any(T >= 2.0 * high) or np.any(T <= 50.0):
+        # the clip bounds were reached or Newton did not settle: no temperature has this enthalpy in range
+        raise FuelsysInputError(
+            f"no gas temperature between 50 K and {2.0 * high:.0f} K has this enthalpy "
+            f"({float(np.ravel(h)[0]):.4g} J/kg): the polynomials' range is {low:.0f}..{high:.0f} K")
     _temperature(T)  # flags results outside the polynomials' range
     return _out(T)
 
