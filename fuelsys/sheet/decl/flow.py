@@ -214,7 +214,7 @@ def fs_bore_from_test(volume_ml, time_s, dp_bar, length_mm, fluid, temp_c, entra
 @spreadsheet_function(
     name="FS_ODD_NEEDLES", category="needles and lines",
     summary="Each needle's flow against the set's median, flagging the odd ones",
-    args=[Arg("flows", "range", "any", "flows (or volumes collected in the same time) of the needles of a set",
+    args=[Arg("flows", "range", "-", "flows (or volumes collected in the same time) of the needles of a set, all in one unit",
               gt=0),
           Arg("threshold_pct", "number", "%", "allowed deviation from the median", default=5.0, gt=0)],
     returns=Returns("table", "%", "one row per needle: deviation from the median [%] and ok / ODD"),
