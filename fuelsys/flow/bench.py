@@ -29,7 +29,7 @@ import math
 
 import numpy as np
 
-from fuelsys.errors import FuelsysInputError
+from fuelsys.errors import FuelsysError, FuelsysInputError
 from fuelsys.flow import fittings
 from fuelsys.flow import friction as fr
 from fuelsys.flow._solve import chandrupatla, expand_bracket
@@ -159,8 +159,14 @@ def effective_bore(mdot, dp, length, rho, mu, entrance=fittings.DEFAULT_ENTRANCE
     d_lo = ((8.0 * mm * mm * K0 / (rho * _PI ** 2) + 128.0 * mu * L * mm / (rho * _PI)) / dp) ** 0.25
     lo = np.log(d_lo) - 1e-9
     hi = lo + math.log(2.0)
-    lo, hi, f_lo, f_hi = expand_bracket(H, lo, hi, grow=1.0)
-    lnD = chandrupatla(H, lo, hi, f_lo, f_hi, xtol=1e-14)
+    try:
+        lo, hi, f_lo, f_hi = expand_bracket(H, lo, hi, grow=1.0)
+        lnD = chandrupatla(H, lo, hi, f_lo, f_hi, xtol=1e-14)
+    except FuelsysError as exc:
+        if isinstance(exc, FuelsysInputError):
+            raise
+        raise FuelsysInputError("no needle bore passes this flow at this pressure drop and length within the "
+                                "needle model's reach: check the test's volume, time, pressure and length") from None
     D = np.exp(lnD)
     _, Re, K, f = _model_dp(m, D, L, rho, mu, k_ent, cd, e, turb)
     _flag_validity(Re, L / D, K, f, k_ent, e / D)

@@ -106,6 +106,11 @@ def entrance_rounded_crane(r_over_d):
     return float(k) if k.ndim == 0 else k
 
 
+#: largest entrance loss coefficient accepted: sharp re-entrant inlets reach about 1 (Idelchik 1986,
+#: diagram 3-1); anything far above it is another loss, not the needle's entrance [-]
+ENTRANCE_K_MAX = 10.0
+
+
 def entrance_k(entrance=DEFAULT_ENTRANCE):
     """Entrance loss coefficient for a key of :data:`ENTRANCE_K` or a given number.
 
@@ -143,6 +148,8 @@ def entrance_k(entrance=DEFAULT_ENTRANCE):
                 f"entrance {entrance!r} is unknown; valid: {', '.join(ENTRANCE_K)} or a loss coefficient >= 0")
         return ENTRANCE_K[key][0]
     k = np.asarray(entrance, dtype=float)
-    if np.any(~np.isfinite(k)) or np.any(k < 0):
-        raise FuelsysInputError(f"entrance loss coefficient must be >= 0 (got {k[~(np.isfinite(k) & (k >= 0))].flat[0]:g})")
+    ok = np.isfinite(k) & (k >= 0) & (k <= ENTRANCE_K_MAX)
+    if not np.all(ok):
+        raise FuelsysInputError(f"entrance loss coefficient must be within 0..{ENTRANCE_K_MAX:g} "
+                                f"(got {k[~ok].flat[0]:g}); put other losses in the line's k_total")
     return float(k) if k.ndim == 0 else k
