@@ -639,6 +639,15 @@ def sheet_summary(wb, bk):
         c.font = Font(bold=True, color="7A1F1F")
 
 
+def _show_axes(wb) -> None:
+    """Mark both axes of every chart as shown: openpyxl writes no "delete" flag, and some readers then hide them."""
+    for ws in wb.worksheets:
+        for chart in ws._charts:
+            for axis in (chart.x_axis, chart.y_axis):
+                axis.delete = False
+            chart.x_axis.axPos = "b"  # the horizontal axis along the bottom (openpyxl's default says left)
+
+
 def _verdict_formatting(wb, bk):
     green = PatternFill("solid", fgColor="D5EDD9")
     amber = PatternFill("solid", fgColor="FBE8C8")
@@ -676,6 +685,7 @@ def build(path: Path | str = STARTER_PATH, compute: bool = True, scenario=None, 
         section(wb, bk)
     sheet_functions(wb)
     _verdict_formatting(wb, bk)
+    _show_axes(wb)
     # the book carries computed values: ask spreadsheet programs to show them rather than recompute on
     # open (a program without the fuelsys functions would replace every one with #NAME?); calcId is
     # that of a current Excel engine, which otherwise recomputes books stamped by an older one
