@@ -242,7 +242,9 @@ def result_value(v):
 MAX_ARRAY_CELLS = 5_000_000
 
 
-def _elem(a, i, j):
+def element_at(a, i, j):
+    """Element (i, j) of ``a`` as broadcasting sees it: a scalar everywhere, a single row or column
+    repeated, and #N/A past the array's end (also what an array formula gives to its area's cells)."""
     if type(a) is not Array:
         return a
     ii = 0 if a.nrows == 1 else i
@@ -265,7 +267,7 @@ def broadcast(fn: Callable, args) -> Array:
         return NUM
     out = []
     for i in range(nr):
-        out.append([fn(*[_elem(a, i, j) for a in args]) for j in range(nc)])
+        out.append([fn(*[element_at(a, i, j) for a in args]) for j in range(nc)])
     return Array(out, nr, nc)
 
 

@@ -50,6 +50,7 @@ from dataclasses import dataclass, field
 from fuelsys.errors import FuelsysError
 from fuelsys.sheet import builtins as bi
 from fuelsys.sheet.builtins import MISSING, Array, XlError
+from fuelsys.sheet.xlsx import col_letters  # noqa: F401 -- part of this module's cell-name helpers
 
 MAX_ROW = 1_048_576
 MAX_COL = 16_384
@@ -82,12 +83,6 @@ class EvaluationError(FuelsysError):
 # ---------------------------------------------------------------------------
 # cell names
 
-def col_letters(c: int) -> str:
-    out = ""
-    while c:
-        c, rem = divmod(c - 1, 26)
-        out = chr(65 + rem) + out
-    return out
 
 
 def col_number(letters: str) -> int:
@@ -1147,7 +1142,7 @@ class Engine:
                 r1, c1, r2, c2 = node.area
                 for rr in range(r1, r2 + 1):
                     for cc in range(c1, c2 + 1):
-                        v = bi.result_value(_spill_element(out, rr - r1, cc - c1))
+                        v = bi.result_value(bi.element_at(out, rr - r1, cc - c1))
                         k2 = (si, rr, cc)
                         vals[k2] = v
                         values[k2] = v
@@ -1195,17 +1190,6 @@ class Engine:
                 idx[si] = (sorted(cols), colrows)
             self._owner_index = idx
         return idx
-
-
-def _spill_element(out, i, j):
-    """The value an array formula's result gives to the cell (i, j) of its area."""
-    if type(out) is not Array:
-        return out
-    ii = 0 if out.nrows == 1 else i
-    jj = 0 if out.ncols == 1 else j
-    if ii >= out.nrows or jj >= out.ncols:
-        return bi.NA
-    return out.at(ii, jj)
 
 
 def _topological(nodes, sheet_names):

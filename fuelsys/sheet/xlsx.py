@@ -68,6 +68,15 @@ from dataclasses import dataclass, field
 from fuelsys.errors import FuelsysError
 from fuelsys.sheet import builtins as bi
 
+
+def col_letters(c: int) -> str:
+    """Column letters of 1-based column ``c`` (1 -> A, 27 -> AA)."""
+    out = ""
+    while c:
+        c, rem = divmod(c - 1, 26)
+        out = chr(65 + rem) + out
+    return out
+
 MAX_FILE_BYTES = 512 * 1024 * 1024
 MAX_MEMBERS = 10_000
 MAX_MEMBER_BYTES = 256 * 1024 * 1024
@@ -689,7 +698,7 @@ class _SheetEditor:
         t, text = value_xml(value)
         p = self.prefix
         tattr = b' t="' + t.encode() + b'"' if t else b""
-        ref = f"{_col_letters(c)}{r}".encode()
+        ref = f"{col_letters(c)}{r}".encode()
         return b"<" + p + b'c r="' + ref + b'"' + tattr + b"><" + p + b"v>" + text.encode("utf-8") + b"</" + p + b"v></" + p + b"c>"
 
     def _new_row(self, r: int, cells: dict) -> bytes:
@@ -786,14 +795,6 @@ class _SheetEditor:
         return head + attrs + space + b">" + body + close
 
 
-def _col_letters(c: int) -> str:
-    out = ""
-    while c:
-        c, rem = divmod(c - 1, 26)
-        out = chr(65 + rem) + out
-    return out
-
-
 def edit_sheet_xml(data: bytes, targets: dict, where: str = "sheet") -> bytes | None:
     """Store ``targets`` ((row, col) -> value) in a worksheet part; None when nothing changes."""
     return _SheetEditor(data, where).edit(targets)
@@ -813,7 +814,7 @@ def _verify_sheet(old: Sheet, new_data: bytes, targets: dict, sst, date1904, whe
                 want = bi.NUM
         got = check.cells.get(key)
         if not _same_stored(want, got):
-            raise WriteError(f"{where}: cell {_col_letters(key[1])}{key[0]} reads back as {got!r}, "
+            raise WriteError(f"{where}: cell {col_letters(key[1])}{key[0]} reads back as {got!r}, "
                              f"expected {want!r} (nothing written)")
 
 
