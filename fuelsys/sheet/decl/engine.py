@@ -13,6 +13,7 @@ import numpy as np
 from fuelsys.errors import FuelsysInputError
 from fuelsys.fuels.base import T0_C
 from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
+from fuelsys.sheet.decl import kelvin as _kelvin
 
 _FUEL = Arg("fuel", "fuel", "-", "built-in fuel name or a fuel table range", default="kerosene")
 _TEMP = Arg("temp_c", "number", "°C", "fuel temperature", default=20.0, gt=-273.15)
@@ -22,14 +23,6 @@ _COEF = Arg("coefficients", "cells", "-", "the range FS_PUMP_FIT returned (label
 #: combustion efficiency default: small vaporiser engines run a few per cent short of complete
 #: combustion (common practice, no source)
 ETA_DEFAULT = 0.95
-
-
-def _kelvin(fuel, temp_c, name="temp_c"):
-    try:
-        return fuel.check_temperature(np.asarray(temp_c, dtype=float) + T0_C, name)
-    except FuelsysInputError as exc:
-        text = str(exc)
-        raise FuelsysInputError(text if text.startswith(name) else f"{name}: {text}") from None
 
 
 def _liquid(fuel, what="fuel"):

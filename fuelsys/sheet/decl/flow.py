@@ -16,8 +16,8 @@ import warnings
 import numpy as np
 
 from fuelsys.errors import FuelsysInputError, ValidityWarning
-from fuelsys.fuels.base import T0_C
 from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
+from fuelsys.sheet.decl import kelvin as _kelvin
 
 _G_MIN = 1e-3 / 60.0          # 1 g/min in kg/s
 _ML_MIN = 1e-6 / 60.0         # 1 mL/min in m³/s
@@ -53,7 +53,7 @@ def _props(fuel, temp_c, oil_pct):
         raise FuelsysInputError("fuel: air is a gas; the needle and line models are for liquids "
                                 "(for a gas jet use FS_GAS_JET_FLOW)")
     f = fuel.with_oil(oil_pct) if oil_pct else fuel
-    T = f.check_temperature(np.asarray(temp_c, dtype=float) + T0_C, "temp_c")
+    T = _kelvin(f, temp_c)
     return f.density(T), f.dynamic_viscosity(T)
 
 

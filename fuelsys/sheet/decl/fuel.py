@@ -12,6 +12,7 @@ import numpy as np
 from fuelsys.errors import FuelsysInputError
 from fuelsys.fuels.base import T0_C
 from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
+from fuelsys.sheet.decl import kelvin as _kelvin
 
 _FUEL = Arg("fuel", "fuel", "-", "built-in fuel name (kerosene, propane, butane, ...) or a fuel table range")
 _TEMP = Arg("temp_c", "number", "°C", "fuel temperature", gt=-273.15)
@@ -23,10 +24,6 @@ _PETROLEUM = ("liquid fuels: pseudo-components from the D86 curve (Riazi-Daubert
               "Riazi-Daubert 1987 Tc, Pc, M; Riazi 2005 ASTM MNL50)")
 _GASES = "gases: CoolProp reference equations of state"
 
-
-def _kelvin(fuel, temp_c, name="temp_c"):
-    """°C -> K, refused outside the fuel's liquid range with a message naming the argument."""
-    return fuel.check_temperature(np.asarray(temp_c, dtype=float) + T0_C, name)
 
 
 def _named(name, fn, *args):

@@ -10,6 +10,7 @@ import numpy as np
 from fuelsys.errors import FuelsysInputError
 from fuelsys.fuels.base import P_ATM, T0_C
 from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
+from fuelsys.sheet.decl import kelvin as _kelvin
 
 _GAS = Arg("gas", "text", "-", "propane, butane, isobutane or a blend lpg-XX-YY (% by mass)")
 
@@ -78,7 +79,7 @@ def fs_gas_jet_flow(bore_mm, length_mm, up_bar_abs, down_bar_abs, gas, temp_c, c
     if np.any(down > up):
         raise FuelsysInputError("down_bar_abs must not be above up_bar_abs (gas flows from high to low pressure)")
     L = np.asarray(length_mm, dtype=float) * 1e-3
-    T = fluid.check_temperature(np.asarray(temp_c, dtype=float) + T0_C, "temp_c")
+    T = _kelvin(fluid, temp_c)
     d = np.asarray(bore_mm, dtype=float) * 1e-3
     if np.all(L == 0) or np.all(L > 0):
         m = gas_start.jet_mass_flow(fluid, d, L, up, down, T, cd)

@@ -5,6 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
+from fuelsys.sheet.decl import kelvin as _kelvin
 
 _GAS_DOC = ("propane, butane, isobutane, or a blend lpg-XX-YY (propane/n-butane, % by mass) "
             "or lpg-XX-YY-iso (propane/isobutane, % by mass)")
@@ -48,7 +49,7 @@ def fs_canister_pressure(gas, temp_c, used_pct):
     See :meth:`fuelsys.fuels.gases.CoolPropFluid.canister_pressure`.
     """
     from fuelsys.errors import FuelsysInputError
-    from fuelsys.fuels.base import P_ATM, T0_C
+    from fuelsys.fuels.base import P_ATM
     from fuelsys.fuels.gases import get_gas
 
     try:
@@ -58,6 +59,6 @@ def fs_canister_pressure(gas, temp_c, used_pct):
     if not all(k in ("propane", "n-butane", "isobutane") for k in fluid.components):
         raise FuelsysInputError(f"gas: {gas} is not a canister gas; use propane, butane, isobutane "
                                 "or a blend lpg-XX-YY / lpg-XX-YY-iso")
-    T = fluid.check_temperature(np.asarray(temp_c, dtype=float) + T0_C, "temp_c")
+    T = _kelvin(fluid, temp_c)
     drawn = np.asarray(used_pct, dtype=float) / 100.0
     return (np.asarray(fluid.canister_pressure(T, drawn)) - P_ATM) / 1e5
