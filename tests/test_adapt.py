@@ -137,3 +137,58 @@ def test_single_empty_cell_range_is_an_empty_cell():
     """xlwings reads an empty cell given as an argument as [[None]] (ndim=2)."""
     assert adapt.call_spec(SCALE, [[3.0]], [[None]]) == [[6.0]]  # the default k = 2 applies
     assert adapt.call_spec(SCALE, [[None]]) == "FS error: x is empty; a number in mm is required"
+
+
+# ---------------------------------------------------------------------------
+# units declared once: the adapter converts (SI definitions: BIPM SI Brochure 9th ed. 2019,
+# Table 8, bar = 1e5 Pa, °C = K - 273.15; standard atmosphere 101325 Pa, ISO 2533:1975)
+
+def _si_spec(impl, args, returns):
+    return Spec(name="FS_TEST_SI", category="about", summary="test", args=tuple(args), returns=returns,
+                source="test", impl=impl, si=True)
+
+
+def test_si_body_gets_core_units_and_result_goes_back():
+    seen = {}
+
+    def body(d, T, p, frac):
+        seen.update(d=d, T=T, p=p, frac=frac)
+        return d  # metres out, shown in the declared unit
+
+    spec = _si_spec(body, [Arg("d_mm", "number", "mm", "a bore"), Arg("t_c", "number", "°C", "a temperature"),
+                           Arg("p_bar_gauge", "number", "bar gauge", "a pressure", si="Pa abs"),
+                           Arg("share_pct", "number", "%", "a share", default=50.0)],
+                    Returns("number", "µm", "the bore"))
+    out = adapt.call_spec(spec, 0.3, 20.0, 2.0)
+    assert seen["d"] == pytest.approx(3e-4, rel=1e-15) and seen["T"] == 293.15
+    assert seen["p"] == 301325.0 and seen["frac"] == 0.5
+    assert out == pytest.approx(300.0, rel=1e-14) and type(out) is float
+
+
+def test_si_ranges_and_tables_convert_every_number_but_not_texts():
+    def body(x, n):
+        return [[float(v), "ok" if v > 0.0005 else "low"] for v in x]
+
+    spec = _si_spec(body, [Arg("x_mm", "range", "mm", "lengths", gt=0), Arg("n", "number", "-", "n", default=1)],
+                    Returns("table", "mm", "lengths again"))
+    out = adapt.call_spec(spec, [[0.3], [0.7]])
+    assert out[0][0] == pytest.approx(0.3, rel=1e-15) and out[0][1] == "low" and out[1][1] == "ok"
+
+
+def test_absolute_pressure_that_looks_gauge_is_refused():
+    spec = _si_spec(lambda p: p, [Arg("case_bar_abs", "number", "bar abs", "case pressure", gt=0)],
+                    Returns("number", "bar abs", "the same"))
+    out = adapt.call_spec(spec, [[0.12], [1.2]])
+    assert out[1][0] == pytest.approx(1.2, rel=1e-15)
+    msg = out[0][0]
+    assert msg.startswith("FS error: case_bar_abs = 0.12 bar abs looks like a gauge value")
+    assert "+ 1.01325" in msg and "1.13325 bar abs" in msg
+
+
+def test_tube_air_with_gauge_case_pressure_is_an_error():
+    # issue 13: FS_TUBE_AIR(6, 4, 0.12, 28, 0.7) had the case pressure typed as gauge
+    from fuelsys.sheet import call
+
+    out = call("FS_TUBE_AIR", 6, 4, 0.12, 28, 0.7)
+    assert out.startswith("FS error: case_bar_abs = 0.12 bar abs looks like a gauge value")
+    assert isinstance(call("FS_TUBE_AIR", 6, 4, 1.13325, 28, 0.7), float)

@@ -103,7 +103,16 @@ def _number_or_error(arg: catalogue.Arg, value):
             or (arg.low is not None and x < arg.low) or (arg.high is not None and x > arg.high)
             or (arg.integer and x != round(x))):
         return math.nan, f"{arg.name} must be {rng}{u} (got {x:g})"
+    if arg.unit == "bar abs" and x < catalogue.GAUGE_SUSPECT_BAR_ABS:
+        return math.nan, _gauge_suspect_text(arg.name, x)
     return x, None
+
+
+def _gauge_suspect_text(name: str, x: float) -> str:
+    atm = catalogue.ATM_BAR
+    return (f"{name} = {x:g} bar abs looks like a gauge value: no engine case, canister or regulator runs "
+            f"below {catalogue.GAUGE_SUSPECT_BAR_ABS:g} bar abs. Absolute = gauge + {atm:g} "
+            f"(a gauge {x:g} bar is {x + atm:g} bar abs)")
 
 
 def _text_or_error(arg: catalogue.Arg, value):
@@ -278,15 +287,48 @@ def set_note_sink(sink):
     return old
 
 
+def _table_from_si(table, conv):
+    """Every number of a table (not texts, not flags) from the core unit into the declared one."""
+    if isinstance(table, np.ndarray):
+        table = table.tolist()
+    if not _is_range(table):
+        if isinstance(table, (int, float, np.integer, np.floating)) and not isinstance(table, (bool, np.bool_)):
+            return float(conv.from_core(float(table)))
+        return table
+    return [_table_from_si(row, conv) for row in table]
+
+
+def _invoke(spec, kwargs):
+    """The body on arguments in declared units; for ``si=True`` the conversions both ways."""
+    if not spec.si:
+        return spec.impl(**kwargs)
+    args = []
+    for arg in spec.args:
+        v = kwargs[arg.name]
+        conv = arg.conversion
+        if conv is not None and v is not None:
+            v = conv.to_core(v if isinstance(v, (float, np.ndarray)) else np.asarray(v, dtype=float))
+        args.append(v)
+    res = spec.impl(*args)
+    conv = spec.returns.conversion
+    if conv is None:
+        return res
+    if spec.returns.kind == "table":
+        return _table_from_si(res, conv)
+    if isinstance(res, (float, int, np.floating, np.integer)):
+        return float(conv.from_core(float(res)))
+    return conv.from_core(np.asarray(res, dtype=float))
+
+
 def _run(spec, kwargs):
     if _note_sink is None:
         with warnings.catch_warnings():
             warnings.simplefilter("ignore", ValidityWarning)
-            return spec.impl(**kwargs)
+            return _invoke(spec, kwargs)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ValidityWarning)
         try:
-            return spec.impl(**kwargs)
+            return _invoke(spec, kwargs)
         finally:
             for w in caught:
                 if issubclass(w.category, ValidityWarning):

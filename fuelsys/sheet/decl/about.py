@@ -11,6 +11,7 @@ from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
     args=[],
     returns=Returns("text", "-", 'the text "fuelsys X.Y.Z"'),
     source="fuelsys package metadata",
+    si=True,
 )
 def fs_version():
     import fuelsys
@@ -25,6 +26,7 @@ def fs_version():
               default="")],
     returns=Returns("text", "-", "the function's summary and arguments with units"),
     source="the fuelsys catalogue",
+    si=True,
 )
 def fs_help(name):
     from fuelsys.sheet import catalogue

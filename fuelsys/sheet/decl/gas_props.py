@@ -2,10 +2,7 @@
 
 from __future__ import annotations
 
-import numpy as np
-
 from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
-from fuelsys.sheet.decl import kelvin as _kelvin
 
 _GAS_DOC = ("propane, butane, isobutane, or a blend lpg-XX-YY (propane/n-butane, % by mass) "
             "or lpg-XX-YY-iso (propane/isobutane, % by mass)")
@@ -21,35 +18,15 @@ _GAS_DOC = ("propane, butane, isobutane, or a blend lpg-XX-YY (propane/n-butane,
               default=0.0, low=0, high=99)],
     returns=Returns("number", "bar gauge",
                     "bubble-point pressure of the canister's liquid minus 1.01325 bar "
-                    "(negative: below atmospheric, the gas will not flow out)"),
+                    "(negative: below atmospheric, the gas will not flow out)", si="Pa abs"),
     source="saturation pressure from CoolProp reference equations of state (Lemmon et al. 2009 "
            "propane; Bücker & Wagner 2006 butanes); blends by the modified Raoult's law with a "
            "virial vapour phase (Smith, Van Ness & Abbott 2005, §14.1); liquid left after "
            "drawing gas by Rayleigh distillation (Rayleigh 1902)",
+    si=True,
 )
-def fs_canister_pressure(gas, temp_c, used_pct):
-    """Canister pressure [bar gauge] of ``gas`` with its liquid at ``temp_c`` [°C].
-
-    Parameters
-    ----------
-    gas : str
-        Gas name, see :func:`fuelsys.fuels.gases.get_gas` [-]
-    temp_c : array_like
-        Liquid temperature [°C]
-    used_pct : array_like
-        Share of the original contents drawn off as gas [% mass]
-
-    Returns
-    -------
-    ndarray
-        Pressure above the standard atmosphere [bar gauge].
-
-    References
-    ----------
-    See :meth:`fuelsys.fuels.gases.CoolPropFluid.canister_pressure`.
-    """
+def fs_canister_pressure(gas, T, drawn):
     from fuelsys.errors import FuelsysInputError
-    from fuelsys.fuels.base import P_ATM
     from fuelsys.fuels.gases import get_gas
 
     try:
@@ -59,6 +36,4 @@ def fs_canister_pressure(gas, temp_c, used_pct):
     if not all(k in ("propane", "n-butane", "isobutane") for k in fluid.components):
         raise FuelsysInputError(f"gas: {gas} is not a canister gas; use propane, butane, isobutane "
                                 "or a blend lpg-XX-YY / lpg-XX-YY-iso")
-    T = _kelvin(fluid, temp_c)
-    drawn = np.asarray(used_pct, dtype=float) / 100.0
-    return (np.asarray(fluid.canister_pressure(T, drawn)) - P_ATM) / 1e5
+    return fluid.canister_pressure(fluid.check_temperature(T, "temp_c"), drawn)
