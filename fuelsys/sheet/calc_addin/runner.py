@@ -141,30 +141,44 @@ def unavailable_reason() -> str | None:
 
 
 _SYSTEM_BIN = ("/usr/bin", "/bin", "/usr/sbin", "/sbin")
+#: names of a Python interpreter in a bin directory
+_PYTHON_NAMES = ("python3", "python", "python%d.%d" % sys.version_info[:2], "python.exe")
+#: variables that steer a Python or name an environment (besides every PYTHON* one)
+_PYTHON_VARS = ("VIRTUAL_ENV", "VIRTUAL_ENV_PROMPT", "PYENV_VERSION", "PYENV_DIR", "CONDA_PREFIX",
+                "CONDA_DEFAULT_ENV", "CONDA_PYTHON_EXE", "__PYVENV_LAUNCHER__")
+
+
+def _holds_python(d: str) -> bool:
+    """A directory with a Python interpreter in it, or a virtual environment's bin directory."""
+    if os.path.isfile(os.path.join(os.path.dirname(os.path.abspath(d)), "pyvenv.cfg")):
+        return True
+    return any(os.path.exists(os.path.join(d, n)) for n in _PYTHON_NAMES)
 
 
 def _child_env(python: str | None = None) -> dict:
     """The environment for LibreOffice's side: none of the calling Python's own settings.
 
-    LibreOffice's embedded Python finds its home through PATH; with another
-    python3 ahead of the system one (a pyenv or virtual-environment bin
-    directory) it starts from the wrong installation and Calc fails to load
-    any document once a Python add-in is installed.  So PATH keeps only the
-    directories whose python3, if any, is ``python`` itself, and PYTHONHOME and
-    PYTHONPATH are dropped (FUELSYS_PYTHONPATH is the add-in's own way).
-    The system's own bin directories always stay.
+    soffice's embedded Python (on Debian the system's libpython) finds its home
+    as a ``python3`` started by name does: from the first ``python3`` on PATH.
+    A virtual environment's bin directory there, even one made with that very
+    Python (its ``python3`` is a link to it), makes the embedded Python start
+    inside the environment, where the system's dist-packages, and so ``uno``,
+    are missing; LibreOffice's Python loader fails and Calc opens no document
+    once a Python add-in is installed.  A pyenv or conda bin directory makes it
+    start from another installation altogether.  So PATH keeps no directory
+    that holds a Python or is a virtual environment's bin, except the system's
+    own bin directories and the directory of ``python`` (the one that imports
+    uno) itself; every PYTHON* variable and the variables naming a virtual,
+    pyenv or conda environment are dropped (FUELSYS_PYTHONPATH is the add-in's
+    own way to add packages).
     """
-    env = dict(os.environ)
-    for var in ("PYTHONHOME", "PYTHONPATH", "VIRTUAL_ENV", "PYENV_VERSION"):
-        env.pop(var, None)
-    keep = os.path.realpath(python) if python else None
-    dirs = []
-    for d in env.get("PATH", "").split(os.pathsep):
-        exe = os.path.join(d, "python3")
-        if (keep and d and d not in _SYSTEM_BIN and os.path.exists(exe)
-                and os.path.realpath(exe) != keep):
-            continue
-        dirs.append(d)
+    env = {k: v for k, v in os.environ.items() if not k.startswith("PYTHON") and k not in _PYTHON_VARS}
+    keep = {os.path.normcase(os.path.abspath(d)) for d in _SYSTEM_BIN}
+    if python:
+        keep.add(os.path.normcase(os.path.dirname(os.path.abspath(python))))
+        keep.add(os.path.normcase(os.path.dirname(os.path.realpath(python))))
+    dirs = [d for d in env.get("PATH", "").split(os.pathsep)
+            if d and (os.path.normcase(os.path.abspath(d)) in keep or not _holds_python(d))]
     env["PATH"] = os.pathsep.join(dirs)
     return env
 
