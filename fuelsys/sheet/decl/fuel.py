@@ -10,9 +10,7 @@ from __future__ import annotations
 import numpy as np
 
 from fuelsys.errors import FuelsysInputError
-from fuelsys.fuels.base import T0_C
 from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
-from fuelsys.sheet.decl import kelvin as _kelvin
 
 _FUEL = Arg("fuel", "fuel", "-", "built-in fuel name (kerosene, propane, butane, ...) or a fuel table range")
 _TEMP = Arg("temp_c", "number", "°C", "fuel temperature", gt=-273.15)
@@ -42,30 +40,11 @@ def _named(name, fn, *args):
     returns=Returns("number", "kg/m³", "liquid density (saturated liquid for gases)"),
     source=f"{_PETROLEUM}: Rackett equation with Spencer & Danner (1972) Z_RA, calibrated to the "
            f"density at 15 °C; oil by volume-additive mixing; {_GASES}",
+    si=True,
 )
-def fs_density(fuel, temp_c, oil_pct):
-    """Liquid density [kg/m³].
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-    temp_c : array_like
-        Temperature [°C]
-    oil_pct : float
-        Turbine oil share [% vol]
-
-    Returns
-    -------
-    ndarray
-        Density [kg/m³].
-
-    References
-    ----------
-    :meth:`fuelsys.fuels.petroleum.PetroleumFuel.density`.
-    """
+def fs_density(fuel, T, oil_pct):
     f = fuel.with_oil(oil_pct)
-    return f.density(_kelvin(f, temp_c))
+    return f.density(f.check_temperature(T, "temp_c"))
 
 
 @spreadsheet_function(
@@ -75,30 +54,11 @@ def fs_density(fuel, temp_c, oil_pct):
     returns=Returns("number", "mm²/s", "kinematic viscosity of the liquid"),
     source="Walther equation (ASTM D341) through the fuel's two viscosity points; oil by the Refutas "
            f"blending number (Baird 1989); {_GASES}",
+    si=True,
 )
-def fs_viscosity(fuel, temp_c, oil_pct):
-    """Kinematic viscosity [mm²/s].
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-    temp_c : array_like
-        Temperature [°C]
-    oil_pct : float
-        Turbine oil share [% vol]
-
-    Returns
-    -------
-    ndarray
-        Kinematic viscosity [mm²/s].
-
-    References
-    ----------
-    ASTM D341; :func:`fuelsys.fuels.blend.refutas_blend`.
-    """
+def fs_viscosity(fuel, T, oil_pct):
     f = fuel.with_oil(oil_pct)
-    return np.asarray(f.kinematic_viscosity(_kelvin(f, temp_c))) * 1e6
+    return f.kinematic_viscosity(f.check_temperature(T, "temp_c"))
 
 
 @spreadsheet_function(
@@ -108,30 +68,11 @@ def fs_viscosity(fuel, temp_c, oil_pct):
     returns=Returns("number", "kJ/(kg·K)", "isobaric specific heat of the liquid"),
     source=f"{_PETROLEUM}: Kesler & Lee (1976) liquid heat capacity; oil by Cragoe (1929), mass average; "
            f"{_GASES}",
+    si=True,
 )
-def fs_specific_heat(fuel, temp_c, oil_pct):
-    """Liquid specific heat [kJ/(kg·K)].
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-    temp_c : array_like
-        Temperature [°C]
-    oil_pct : float
-        Turbine oil share [% vol]
-
-    Returns
-    -------
-    ndarray
-        Specific heat [kJ/(kg·K)].
-
-    References
-    ----------
-    Kesler and Lee (1976).
-    """
+def fs_specific_heat(fuel, T, oil_pct):
     f = fuel.with_oil(oil_pct)
-    return np.asarray(f.specific_heat(_kelvin(f, temp_c))) / 1e3
+    return f.specific_heat(f.check_temperature(T, "temp_c"))
 
 
 @spreadsheet_function(
@@ -140,27 +81,10 @@ def fs_specific_heat(fuel, temp_c, oil_pct):
     args=[_FUEL, _TEMP],
     returns=Returns("number", "W/(m·K)", "thermal conductivity of the liquid"),
     source=f"{_PETROLEUM}: Riazi & Faghri (1985) at the mean average boiling point; {_GASES}",
+    si=True,
 )
-def fs_conductivity(fuel, temp_c):
-    """Liquid thermal conductivity [W/(m·K)].
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-    temp_c : array_like
-        Temperature [°C]
-
-    Returns
-    -------
-    ndarray
-        Conductivity [W/(m·K)].
-
-    References
-    ----------
-    Riazi and Faghri (1985).
-    """
-    return fuel.conductivity(_kelvin(fuel, temp_c))
+def fs_conductivity(fuel, T):
+    return fuel.conductivity(fuel.check_temperature(T, "temp_c"))
 
 
 @spreadsheet_function(
@@ -169,27 +93,10 @@ def fs_conductivity(fuel, temp_c):
     args=[_FUEL, _TEMP],
     returns=Returns("number", "mN/m", "surface tension"),
     source=f"{_PETROLEUM}: API Technical Data Book procedure 10A3.2; {_GASES}",
+    si=True,
 )
-def fs_surface_tension(fuel, temp_c):
-    """Surface tension [mN/m].
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-    temp_c : array_like
-        Temperature [°C]
-
-    Returns
-    -------
-    ndarray
-        Surface tension [mN/m].
-
-    References
-    ----------
-    API TDB procedure 10A3.2.
-    """
-    return np.asarray(fuel.surface_tension(_kelvin(fuel, temp_c))) * 1e3
+def fs_surface_tension(fuel, T):
+    return fuel.surface_tension(fuel.check_temperature(T, "temp_c"))
 
 
 @spreadsheet_function(
@@ -199,27 +106,10 @@ def fs_surface_tension(fuel, temp_c):
     returns=Returns("number", "bar abs", "bubble-point pressure of the liquid"),
     source=f"{_PETROLEUM}: Lee & Kesler (1975) vapour pressure of each pseudo-component, "
            f"Raoult's law; {_GASES}",
+    si=True,
 )
-def fs_vapour_pressure(fuel, temp_c):
-    """Vapour pressure [bar abs].
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-    temp_c : array_like
-        Temperature [°C]
-
-    Returns
-    -------
-    ndarray
-        Bubble-point pressure [bar abs].
-
-    References
-    ----------
-    Lee and Kesler (1975); Raoult's law.
-    """
-    return np.asarray(fuel.vapour_pressure(_kelvin(fuel, temp_c))) / 1e5
+def fs_vapour_pressure(fuel, T):
+    return fuel.vapour_pressure(fuel.check_temperature(T, "temp_c"))
 
 
 @spreadsheet_function(
@@ -229,27 +119,10 @@ def fs_vapour_pressure(fuel, temp_c):
     returns=Returns("number", "kJ/kg", "heat of vaporisation, liquid to vapour at the temperature"),
     source=f"{_PETROLEUM}: Riedel (1954) at each pseudo-component's boiling point, Watson (1943) "
            f"scaling; {_GASES}",
+    si=True,
 )
-def fs_latent_heat(fuel, temp_c):
-    """Heat of vaporisation [kJ/kg].
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-    temp_c : array_like
-        Temperature [°C]
-
-    Returns
-    -------
-    ndarray
-        Heat of vaporisation [kJ/kg].
-
-    References
-    ----------
-    Riedel (1954); Watson (1943).
-    """
-    return np.asarray(fuel.latent_heat(_kelvin(fuel, temp_c))) / 1e3
+def fs_latent_heat(fuel, T):
+    return fuel.latent_heat(fuel.check_temperature(T, "temp_c"))
 
 
 @spreadsheet_function(
@@ -258,28 +131,10 @@ def fs_latent_heat(fuel, temp_c):
     args=[_FUEL, _P],
     returns=Returns("number", "°C", "bubble-point temperature (no air)"),
     source=f"{_PETROLEUM}: Raoult's law with Lee & Kesler (1975) vapour pressures; {_GASES}",
+    si=True,
 )
-def fs_bubble_point(fuel, p_bar_abs):
-    """Bubble-point temperature [°C].
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-    p_bar_abs : array_like
-        Pressure [bar abs]
-
-    Returns
-    -------
-    ndarray
-        Bubble-point temperature [°C].
-
-    References
-    ----------
-    Raoult's law; Lee and Kesler (1975).
-    """
-    P = np.asarray(p_bar_abs, dtype=float) * 1e5
-    return np.asarray(_named("p_bar_abs", fuel.bubble_point, P)) - T0_C
+def fs_bubble_point(fuel, P):
+    return _named("p_bar_abs", fuel.bubble_point, P)
 
 
 @spreadsheet_function(
@@ -291,32 +146,12 @@ def fs_bubble_point(fuel, p_bar_abs):
     returns=Returns("number", "°C", "dew-point temperature"),
     source=f"{_PETROLEUM}: Raoult's and Dalton's laws with Lee & Kesler (1975) vapour pressures, "
            f"air as an inert carrier; {_GASES}",
+    si=True,
 )
-def fs_dew_point(fuel, p_bar_abs, fuel_air_ratio):
-    """Dew-point temperature [°C].
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-    p_bar_abs : array_like
-        Pressure [bar abs]
-    fuel_air_ratio : array_like or None
-        Fuel/air mass ratio [kg/kg]; None for the pure vapour
-
-    Returns
-    -------
-    ndarray
-        Dew-point temperature [°C].
-
-    References
-    ----------
-    Raoult's law; Dalton's law; Lee and Kesler (1975).
-    """
-    P = np.asarray(p_bar_abs, dtype=float) * 1e5
-    if fuel_air_ratio is None:
-        return np.asarray(_named("p_bar_abs", fuel.dew_point, P)) - T0_C
-    return np.asarray(_named("p_bar_abs", fuel.dew_point, P, np.asarray(fuel_air_ratio, dtype=float))) - T0_C
+def fs_dew_point(fuel, P, far):
+    if far is None:
+        return _named("p_bar_abs", fuel.dew_point, P)
+    return _named("p_bar_abs", fuel.dew_point, P, far)
 
 
 @spreadsheet_function(
@@ -327,33 +162,9 @@ def fs_dew_point(fuel, p_bar_abs, fuel_air_ratio):
     returns=Returns("number", "0-1 by mass", "equilibrium vaporised mass fraction of the fuel"),
     source=f"{_PETROLEUM}: Raoult's law with air as an inert carrier, Rachford & Rice (1952) flash; "
            f"{_GASES}",
+    si=True,
 )
-def fs_vapour_fraction(fuel, temp_c, p_bar_abs, fuel_air_ratio):
-    """Vaporised mass fraction [0..1].
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-    temp_c : array_like
-        Temperature [°C]
-    p_bar_abs : array_like
-        Pressure [bar abs]
-    fuel_air_ratio : array_like
-        Fuel/air mass ratio [kg/kg]
-
-    Returns
-    -------
-    ndarray
-        Vaporised mass fraction [kg/kg].
-
-    References
-    ----------
-    Rachford and Rice (1952); Raoult's law.
-    """
-    T = np.asarray(temp_c, dtype=float) + T0_C
-    P = np.asarray(p_bar_abs, dtype=float) * 1e5
-    far = np.asarray(fuel_air_ratio, dtype=float)
+def fs_vapour_fraction(fuel, T, P, far):
     try:
         return fuel.vapour_fraction(T, P, far)
     except FuelsysInputError as exc:
@@ -370,25 +181,10 @@ def fs_vapour_fraction(fuel, temp_c, p_bar_abs, fuel_air_ratio):
     returns=Returns("number", "MJ/kg", "lower (net) heating value"),
     source="the fuel's own data; otherwise Cragoe (1929) from its density (liquids) or heats of "
            "formation (gases)",
+    si=True,
 )
 def fs_heating_value(fuel):
-    """Lower heating value [MJ/kg].
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-
-    Returns
-    -------
-    float
-        Lower heating value [MJ/kg].
-
-    References
-    ----------
-    :func:`fuelsys.fuels.petroleum.cragoe_1929_lhv`.
-    """
-    return float(fuel.lhv) / 1e6
+    return float(fuel.lhv)
 
 
 @spreadsheet_function(
@@ -398,24 +194,9 @@ def fs_heating_value(fuel):
     returns=Returns("number", "kg/kg", "kg of fuel per kg of air for complete combustion"),
     source="combustion stoichiometry from the fuel's hydrogen content (given, or Riazi & Daubert 1987 "
            "C/H ratio) or formula; dry air of Lemmon et al. (2000)",
+    si=True,
 )
 def fs_stoich_far(fuel):
-    """Stoichiometric fuel/air ratio [kg/kg].
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-
-    Returns
-    -------
-    float
-        Fuel/air ratio [kg/kg].
-
-    References
-    ----------
-    :func:`fuelsys.fuels.petroleum.stoich_far_from_composition`.
-    """
     return float(fuel.stoich_far)
 
 
@@ -425,24 +206,9 @@ def fs_stoich_far(fuel):
     args=[_FUEL],
     returns=Returns("table", "-", "two columns: label (with its unit) and value"),
     source="the fuel's data and characterisation (see FS_DENSITY and the other fuel functions)",
+    si=True,
 )
 def fs_fuel_info(fuel):
-    """Two-column table (label [unit], value).
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-
-    Returns
-    -------
-    list
-        Rows of [label, value] [-].
-
-    References
-    ----------
-    :meth:`fuelsys.fuels.base.Fuel.info`.
-    """
     rows = []
     for label, value, unit in fuel.info():
         lab = f"{label} [{unit}]" if unit and unit != "-" else str(label)
