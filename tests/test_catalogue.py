@@ -96,7 +96,7 @@ def test_declaration_checks_refuse_bad_declarations():
 
 DECL_DIR = Path(catalogue.__file__).resolve().parent / "decl"
 #: decl modules still converting by hand; each leaves this set when its bodies go SI (si=True)
-NOT_YET_SI = {"__init__.py", "combustor.py", "engine.py", "flow.py", "gas.py", "vaporiser.py"}
+NOT_YET_SI = {"__init__.py", "combustor.py", "engine.py", "gas.py", "vaporiser.py"}
 #: names of unit constants that must not be used by a declaration (the adapter converts)
 CONVERSION_NAMES = {"T0_C", "P_ATM", "P_ISA", "_BAR", "_G_MIN", "_ML_MIN", "_G_S"}
 #: the declaring calls: their numbers are bounds and defaults in the declared unit, not conversions
@@ -134,9 +134,16 @@ def conversion_literals(path: Path) -> list[str]:
     for node in ast.walk(tree):
         if isinstance(node, ast.Call) and isinstance(node.func, ast.Name) and node.func.id in DECLARING:
             skip.update(id(n) for n in ast.walk(node))
+    limits = set()  # a number compared with is a limit (samples x needles <= 1e6), not a conversion
+    for node in ast.walk(tree):
+        if isinstance(node, ast.Compare):
+            for side in [node.left, *node.comparators]:
+                while isinstance(side, ast.UnaryOp):
+                    side = side.operand
+                limits.add(id(side))
     found = []
     for node in ast.walk(tree):
-        if id(node) in skip:
+        if id(node) in skip or id(node) in limits:
             continue
         if isinstance(node, ast.Constant) and is_conversion_literal(node.value):
             found.append(f"{path.name}:{node.lineno}: {node.value!r}")
@@ -152,7 +159,7 @@ def test_the_literal_rule_finds_what_it_should():
         assert is_conversion_literal(v), v
     for v in (0, 1, 2, 9, 0.5, 0.95, 20, 0.6, True, "1e5"):
         assert not is_conversion_literal(v), v
-    src = "x = a * 1e5\ny = T0_C\nArg('p', 'number', 'bar', 'p', high=100)\n"
+    src = "x = a * 1e5\ny = T0_C\nArg('p', 'number', 'bar', 'p', high=100)\nif n > 1_000_000:\n    pass\n"
     path = Path(__file__).parent / "_probe_decl_rule.py"
     try:
         path.write_text(src, encoding="utf-8")

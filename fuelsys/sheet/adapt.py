@@ -315,9 +315,10 @@ def _invoke(spec, kwargs):
         return res
     if spec.returns.kind == "table":
         return _table_from_si(res, conv)
-    if isinstance(res, (float, int, np.floating, np.integer)):
-        return float(conv.from_core(float(res)))
-    return conv.from_core(np.asarray(res, dtype=float))
+    out = conv.from_core(np.asarray(res, dtype=float))
+    if spec.returns.decimals is not None:
+        out = np.round(out, spec.returns.decimals)
+    return float(out) if out.ndim == 0 else out
 
 
 def _run(spec, kwargs):

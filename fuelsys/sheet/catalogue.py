@@ -335,6 +335,9 @@ class Returns:
     unit: str
     doc: str
     si: str | None = None
+    #: for tabulated data exact in the declared unit: round the converted result to this many
+    #: decimals (0.39 mm stays 0.39, not 0.39000000000000001)
+    decimals: int | None = None
 
     def __post_init__(self):
         if self.kind not in RETURN_KINDS:

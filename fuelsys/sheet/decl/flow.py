@@ -16,12 +16,7 @@ import warnings
 import numpy as np
 
 from fuelsys.errors import FuelsysInputError, ValidityWarning
-from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
-from fuelsys.sheet.decl import kelvin as _kelvin
-
-_G_MIN = 1e-3 / 60.0          # 1 g/min in kg/s
-_ML_MIN = 1e-6 / 60.0         # 1 mL/min in m³/s
-_BAR = 1e5
+from fuelsys.sheet.catalogue import Arg, Returns, from_si, spreadsheet_function
 
 _FUEL = Arg("fuel", "fuel", "-", "built-in fuel name (kerosene, water, ...) or a fuel table range")
 _TEMP = Arg("temp_c", "number", "°C", "fuel temperature", gt=-273.15)
@@ -47,13 +42,13 @@ def _entrance(text):
         return text
 
 
-def _props(fuel, temp_c, oil_pct):
-    """Liquid density [kg/m³] and viscosity [Pa·s] of the fuel (with oil) at temp_c [°C]."""
+def _props(fuel, T, oil_pct):
+    """Liquid density [kg/m³] and viscosity [Pa·s] of the fuel (with oil) at T [K]."""
     if getattr(fuel, "name", "") == "air":
         raise FuelsysInputError("fuel: air is a gas; the needle and line models are for liquids "
                                 "(for a gas jet use FS_GAS_JET_FLOW)")
     f = fuel.with_oil(oil_pct) if oil_pct else fuel
-    T = _kelvin(f, temp_c)
+    T = f.check_temperature(T, "temp_c")
     return f.density(T), f.dynamic_viscosity(T)
 
 
@@ -62,14 +57,15 @@ def _props(fuel, temp_c, oil_pct):
     summary="Minimum bore of needle tubing of a gauge and wall class (ISO 9626)",
     args=[_GAUGE,
           Arg("wall", "text", "-", "wall class: normal, thin, extra-thin (RW, TW, ETW)", default="normal")],
-    returns=Returns("number", "mm", "the standard's minimum inside diameter; a measured bore is better"),
+    returns=Returns("number", "mm", "the standard's minimum inside diameter; a measured bore is better",
+                    decimals=9),
     source=_ISO_SOURCE,
+    si=True,
 )
 def fs_needle_bore(gauge, wall):
-    """Minimum bore [mm] of ``gauge`` [-] tubing with ``wall`` class [-]."""
     from fuelsys.flow.tubing import needle_bore
 
-    return np.round(np.asarray(needle_bore(gauge, wall)) * 1e3, 9)
+    return needle_bore(gauge, wall)
 
 
 @spreadsheet_function(
@@ -77,23 +73,21 @@ def fs_needle_bore(gauge, wall):
     summary="Outside diameter of needle tubing of a gauge (ISO 9626)",
     args=[_GAUGE,
           Arg("limit", "text", "-", "mid (middle of the allowed range), min, max or nominal", default="mid")],
-    returns=Returns("number", "mm", "outside diameter"),
+    returns=Returns("number", "mm", "outside diameter", decimals=9),
     source=_ISO_SOURCE,
+    si=True,
 )
 def fs_needle_od(gauge, limit):
-    """Outside diameter [mm] of ``gauge`` [-] tubing; ``limit`` [-] picks which."""
     from fuelsys.flow.tubing import needle_od
 
-    return np.round(np.asarray(needle_od(gauge, limit)) * 1e3, 9)
+    return needle_od(gauge, limit)
 
 
-def _flow(bore_mm, length_mm, dp_bar, fuel, temp_c, oil_pct, entrance):
+def _flow(D, L, dp, fuel, T, oil_pct, entrance):
     from fuelsys.flow.needle import needle_flow
 
-    rho, mu = _props(fuel, temp_c, oil_pct)
-    m = needle_flow(np.asarray(dp_bar) * _BAR, np.asarray(bore_mm) * 1e-3, np.asarray(length_mm) * 1e-3,
-                    rho, mu, entrance=_entrance(entrance))
-    return m, rho, mu
+    rho, mu = _props(fuel, T, oil_pct)
+    return needle_flow(dp, D, L, rho, mu, entrance=_entrance(entrance)), rho
 
 
 @spreadsheet_function(
@@ -103,10 +97,10 @@ def _flow(bore_mm, length_mm, dp_bar, fuel, temp_c, oil_pct, entrance):
           _FUEL, _TEMP, _OIL, _ENTRANCE],
     returns=Returns("number", "g/min", "mass flow through the needle"),
     source=_NEEDLE_SOURCE,
+    si=True,
 )
-def fs_needle_flow(bore_mm, length_mm, dp_bar, fuel, temp_c, oil_pct, entrance):
-    """Needle mass flow [g/min] from bore [mm], length [mm], dp [bar], fuel, temperature [°C]."""
-    return _flow(bore_mm, length_mm, dp_bar, fuel, temp_c, oil_pct, entrance)[0] / _G_MIN
+def fs_needle_flow(D, L, dp, fuel, T, oil_pct, entrance):
+    return _flow(D, L, dp, fuel, T, oil_pct, entrance)[0]
 
 
 @spreadsheet_function(
@@ -116,19 +110,18 @@ def fs_needle_flow(bore_mm, length_mm, dp_bar, fuel, temp_c, oil_pct, entrance):
           _FUEL, _TEMP, _OIL, _ENTRANCE],
     returns=Returns("number", "mL/min", "volume flow through the needle, at the fuel's temperature"),
     source=_NEEDLE_SOURCE,
+    si=True,
 )
-def fs_needle_flow_ml(bore_mm, length_mm, dp_bar, fuel, temp_c, oil_pct, entrance):
-    """Needle volume flow [mL/min] from bore [mm], length [mm], dp [bar], fuel, temperature [°C]."""
-    m, rho, _ = _flow(bore_mm, length_mm, dp_bar, fuel, temp_c, oil_pct, entrance)
-    return m / rho / _ML_MIN
+def fs_needle_flow_ml(D, L, dp, fuel, T, oil_pct, entrance):
+    m, rho = _flow(D, L, dp, fuel, T, oil_pct, entrance)
+    return m / rho
 
 
-def _dp(bore_mm, length_mm, mdot, fuel, temp_c, oil_pct, entrance):
+def _dp(D, L, mdot, fuel, T, oil_pct, entrance):
     from fuelsys.flow.needle import needle_dp
 
-    rho, mu = _props(fuel, temp_c, oil_pct)
-    return needle_dp(mdot(rho), np.asarray(bore_mm) * 1e-3, np.asarray(length_mm) * 1e-3, rho, mu,
-                     entrance=_entrance(entrance)) / _BAR
+    rho, mu = _props(fuel, T, oil_pct)
+    return needle_dp(mdot(rho), D, L, rho, mu, entrance=_entrance(entrance))
 
 
 @spreadsheet_function(
@@ -138,10 +131,10 @@ def _dp(bore_mm, length_mm, mdot, fuel, temp_c, oil_pct, entrance):
           _FUEL, _TEMP, _OIL, _ENTRANCE],
     returns=Returns("number", "bar", "pressure drop from the manifold to the space the jet enters"),
     source=_NEEDLE_SOURCE,
+    si=True,
 )
-def fs_needle_dp(bore_mm, length_mm, flow_g_min, fuel, temp_c, oil_pct, entrance):
-    """Needle pressure drop [bar] from bore [mm], length [mm], flow [g/min], fuel, temperature [°C]."""
-    return _dp(bore_mm, length_mm, lambda rho: np.asarray(flow_g_min) * _G_MIN, fuel, temp_c, oil_pct, entrance)
+def fs_needle_dp(D, L, mdot, fuel, T, oil_pct, entrance):
+    return _dp(D, L, lambda rho: mdot, fuel, T, oil_pct, entrance)
 
 
 @spreadsheet_function(
@@ -151,11 +144,10 @@ def fs_needle_dp(bore_mm, length_mm, flow_g_min, fuel, temp_c, oil_pct, entrance
           _FUEL, _TEMP, _OIL, _ENTRANCE],
     returns=Returns("number", "bar", "pressure drop from the manifold to the space the jet enters"),
     source=_NEEDLE_SOURCE,
+    si=True,
 )
-def fs_needle_dp_ml(bore_mm, length_mm, flow_ml_min, fuel, temp_c, oil_pct, entrance):
-    """Needle pressure drop [bar] from bore [mm], length [mm], flow [mL/min], fuel, temperature [°C]."""
-    return _dp(bore_mm, length_mm, lambda rho: rho * np.asarray(flow_ml_min) * _ML_MIN, fuel, temp_c, oil_pct,
-               entrance)
+def fs_needle_dp_ml(D, L, Q, fuel, T, oil_pct, entrance):
+    return _dp(D, L, lambda rho: rho * Q, fuel, T, oil_pct, entrance)
 
 
 @spreadsheet_function(
@@ -164,13 +156,13 @@ def fs_needle_dp_ml(bore_mm, length_mm, flow_ml_min, fuel, temp_c, oil_pct, entr
     args=[_BORE, Arg("flow_g_min", "number", "g/min", "mass flow through the needle", gt=0), _FUEL, _TEMP, _OIL],
     returns=Returns("number", "-", "Reynolds number 4 m / (pi D mu); laminar below about 2000"),
     source="definition (Reynolds 1883); viscosity from the fuel model",
+    si=True,
 )
-def fs_needle_reynolds(bore_mm, flow_g_min, fuel, temp_c, oil_pct):
-    """Reynolds number [-] from bore [mm], flow [g/min], fuel, temperature [°C]."""
+def fs_needle_reynolds(D, mdot, fuel, T, oil_pct):
     from fuelsys.flow.needle import needle_reynolds
 
-    _, mu = _props(fuel, temp_c, oil_pct)
-    return needle_reynolds(np.asarray(flow_g_min) * _G_MIN, np.asarray(bore_mm) * 1e-3, mu)
+    _, mu = _props(fuel, T, oil_pct)
+    return needle_reynolds(mdot, D, mu)
 
 
 @spreadsheet_function(
@@ -179,13 +171,13 @@ def fs_needle_reynolds(bore_mm, flow_g_min, fuel, temp_c, oil_pct):
     args=[_BORE, Arg("flow_g_min", "number", "g/min", "mass flow through the needle", gt=0), _FUEL, _TEMP, _OIL],
     returns=Returns("number", "m/s", "mean velocity 4 m / (rho pi D^2)"),
     source="continuity; density from the fuel model",
+    si=True,
 )
-def fs_needle_velocity(bore_mm, flow_g_min, fuel, temp_c, oil_pct):
-    """Jet velocity [m/s] from bore [mm], flow [g/min], fuel, temperature [°C]."""
+def fs_needle_velocity(D, mdot, fuel, T, oil_pct):
     from fuelsys.flow.needle import needle_velocity
 
-    rho, _ = _props(fuel, temp_c, oil_pct)
-    return needle_velocity(np.asarray(flow_g_min) * _G_MIN, np.asarray(bore_mm) * 1e-3, rho)
+    rho, _ = _props(fuel, T, oil_pct)
+    return needle_velocity(mdot, D, rho)
 
 
 @spreadsheet_function(
@@ -200,15 +192,13 @@ def fs_needle_velocity(bore_mm, flow_g_min, fuel, temp_c, oil_pct):
           _ENTRANCE],
     returns=Returns("number", "mm", "the bore with which the needle model passes the measured flow"),
     source=f"inverse of the needle model on bore (Chandrupatla 1997 root search); {_NEEDLE_SOURCE}",
+    si=True,
 )
-def fs_bore_from_test(volume_ml, time_s, dp_bar, length_mm, fluid, temp_c, entrance):
-    """Effective bore [mm] from volume [mL], time [s], dp [bar], length [mm], fluid and temperature [°C]."""
+def fs_bore_from_test(volume, time, dp, L, fluid, T, entrance):
     from fuelsys.flow.bench import bench_mass_flow, effective_bore
 
-    rho, mu = _props(fluid, temp_c, 0.0)
-    m = bench_mass_flow(np.asarray(volume_ml) * 1e-6, time_s, rho)
-    return effective_bore(m, np.asarray(dp_bar) * _BAR, np.asarray(length_mm) * 1e-3, rho, mu,
-                          entrance=_entrance(entrance)) * 1e3
+    rho, mu = _props(fluid, T, 0.0)
+    return effective_bore(bench_mass_flow(volume, time, rho), dp, L, rho, mu, entrance=_entrance(entrance))
 
 
 @spreadsheet_function(
@@ -219,13 +209,13 @@ def fs_bore_from_test(volume_ml, time_s, dp_bar, length_mm, fluid, temp_c, entra
           Arg("threshold_pct", "number", "%", "allowed deviation from the median", default=5.0, gt=0)],
     returns=Returns("table", "%", "one row per needle: deviation from the median [%] and ok / ODD"),
     source="deviation from the set's median (a robust centre: Hampel et al. 1986)",
+    si=True,
 )
-def fs_odd_needles(flows, threshold_pct):
-    """Rows (deviation [%], "ok"/"ODD") for the needle ``flows`` [any unit] and ``threshold_pct`` [%]."""
+def fs_odd_needles(flows, threshold):
     from fuelsys.flow.bench import odd_needles
 
-    dev, odd = odd_needles(flows, threshold_pct / 100.0)
-    return [[float(d * 100.0), "ODD" if o else "ok"] for d, o in zip(dev, odd)]
+    dev, odd = odd_needles(flows, threshold)
+    return [[float(d), "ODD" if o else "ok"] for d, o in zip(dev, odd)]
 
 
 @spreadsheet_function(
@@ -241,31 +231,29 @@ def fs_odd_needles(flows, threshold_pct):
     returns=Returns("table", "g/min", "a column: the mass flow of each needle, in the order given"),
     source=("node and loop balances of the ring network solved by Newton's method (Jeppson 1976); ring "
             f"friction Churchill (1977); needles: {_NEEDLE_SOURCE}"),
+    si=True,
 )
-def fs_manifold_split(bores_mm, length_mm, supply_bar_gauge, case_bar_gauge, ring_bore_mm, ring_dia_mm, fuel,
-                      temp_c, oil_pct, entrance):
-    """Column of needle flows [g/min] for the ring; bores and lengths [mm], pressures [bar gauge]."""
+def fs_manifold_split(bores, lengths, p_supply, p_case, ring_bore, ring_dia, fuel, T, oil_pct, entrance):
     from fuelsys.flow.manifold import ring_manifold
 
-    bores = np.asarray(bores_mm, dtype=float)
-    lengths = np.asarray(length_mm, dtype=float)
     if lengths.size not in (1, bores.size):
         raise FuelsysInputError(f"length_mm must hold one value or one per needle ({bores.size}); "
                                 f"got {lengths.size}")
-    rho, mu = _props(fuel, temp_c, oil_pct)
-    r = ring_manifold(bores * 1e-3, lengths * 1e-3, supply_bar_gauge * _BAR, case_bar_gauge * _BAR,
-                      ring_bore_mm * 1e-3, ring_dia_mm * 1e-3, float(rho), float(mu), entrance=_entrance(entrance))
-    return [[float(q / _G_MIN)] for q in r.flows]
+    rho, mu = _props(fuel, T, oil_pct)
+    r = ring_manifold(bores, lengths, p_supply, p_case, ring_bore, ring_dia, float(rho), float(mu),
+                      entrance=_entrance(entrance))
+    return [[float(q)] for q in r.flows]
 
 
 # ID tolerance of hypodermic tubing by gauge, US/Stubs nominal sizes (Wikipedia "Needle gauge comparison
-# chart"): +-0.003 in for 7..14G, +-0.0015 in for 15..19G, +-0.00075 in for 20G and finer.
-def _default_bore_tol_mm(gauge: int) -> float:
-    if gauge <= 14:
-        return 0.003 * 25.4
-    if gauge <= 19:
-        return 0.0015 * 25.4
-    return 0.00075 * 25.4
+# chart"): +-0.003 in (76.2 µm) for 7..14G, +-0.0015 in (38.1 µm) for 15..19G, +-0.00075 in (19.05 µm)
+# for 20G and finer; as (finest gauge of the band, tolerance [m]).
+_BORE_TOL = ((14, 76.2e-6), (19, 38.1e-6), (99, 19.05e-6))
+
+
+def _default_bore_tol(gauge: int) -> float:
+    """The usual ID tolerance [m] of hypodermic tubing of ``gauge`` [-]."""
+    return next(tol for last, tol in _BORE_TOL if gauge <= last)
 
 
 @spreadsheet_function(
@@ -292,44 +280,43 @@ def _default_bore_tol_mm(gauge: int) -> float:
     source=("Monte Carlo with numpy's PCG64 stream, deviations uniform within the bands, bores centred "
             "bore_tol above the ISO 9626 minimum; default ID tolerance of hypodermic tubing from the needle "
             f"gauge comparison chart (Wikipedia); needle model: {_NEEDLE_SOURCE}"),
+    si=True,
 )
-def fs_tolerance_spread(gauge, wall, needles, length_mm, dp_bar, fuel, temp_c, bore_tol_mm, length_tol_mm,
-                        samples, seed, oil_pct, bore_mm):
-    """Labelled table of the tolerance study; sizes [mm], dp [bar], temperature [°C]."""
+def fs_tolerance_spread(gauge, wall, needles, L, dp, fuel, T, bore_tol, length_tol, samples, seed, oil_pct, D):
     from fuelsys.flow.tolerance import tolerance_study
     from fuelsys.flow.tubing import needle_bore, od_range
 
     g = int(gauge)
     if int(samples) * int(needles) > 1_000_000:
         raise FuelsysInputError(f"samples x needles must be at most 1e6 (got {int(samples) * int(needles):g})")
-    tol = _default_bore_tol_mm(g) if bore_tol_mm is None else float(bore_tol_mm)
+    tol = _default_bore_tol(g) if bore_tol is None else float(bore_tol)
     # bore_min is the nominal bore less one tolerance: the band then reaches down to it
-    bore_min = needle_bore(g, wall) if bore_mm is None else float(bore_mm) * 1e-3 - tol * 1e-3
+    bore_min = needle_bore(g, wall) if D is None else float(D) - tol
     if bore_min <= 0:
-        raise FuelsysInputError(f"bore_tol_mm ({tol:g} mm) must be smaller than bore_mm ({float(bore_mm):g} mm)")
-    rho, mu = _props(fuel, temp_c, oil_pct)
+        raise FuelsysInputError(f"bore_tol_mm ({from_si(tol, 'mm'):g} mm) must be smaller than bore_mm "
+                                f"({from_si(D, 'mm'):g} mm)")
+    rho, mu = _props(fuel, T, oil_pct)
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ValidityWarning)
-        r = tolerance_study(bore_min + tol * 1e-3, length_mm * 1e-3, dp_bar * _BAR, float(rho), float(mu),
-                            int(needles), tol * 1e-3, length_tol_mm * 1e-3, samples=int(samples), seed=int(seed),
-                            od_min=od_range(g)[0])
+        r = tolerance_study(bore_min + tol, L, dp, float(rho), float(mu), int(needles), tol, length_tol,
+                            samples=int(samples), seed=int(seed), od_min=od_range(g)[0])
     notes = sorted({str(w.message).split(":")[0] for w in caught if issubclass(w.category, ValidityWarning)})
-    pct = 100.0
-    return [
-        ["nominal bore", (bore_min + tol * 1e-3) * 1e3, "mm"],
-        ["bore tolerance", tol, "mm"],
-        ["nominal flow per needle", r["nominal_flow"] / _G_MIN, "g/min"],
-        ["mean flow per needle", r["mean_flow"] / _G_MIN, "g/min"],
-        ["spread between needles (CV), mean of sets", r["cv_mean"] * pct, "%"],
-        ["spread between needles (CV), 95th percentile", r["cv_p95"] * pct, "%"],
-        ["worst low needle, typical set", r["low_typical"] * pct, "%"],
-        ["worst high needle, typical set", r["high_typical"] * pct, "%"],
-        ["worst low needle, all sets", r["low_worst"] * pct, "%"],
-        ["worst high needle, all sets", r["high_worst"] * pct, "%"],
-        ["flow sensitivity to bore (d ln q / d ln D)", r["bore_sensitivity"], "-"],
-        ["sets drawn", float(int(samples)), "-"],
-        ["validity", "ok" if not notes else "outside range: " + "; ".join(notes), "-"],
+    rows = [
+        ("nominal bore", bore_min + tol, "mm"),
+        ("bore tolerance", tol, "mm"),
+        ("nominal flow per needle", r["nominal_flow"], "g/min"),
+        ("mean flow per needle", r["mean_flow"], "g/min"),
+        ("spread between needles (CV), mean of sets", r["cv_mean"], "%"),
+        ("spread between needles (CV), 95th percentile", r["cv_p95"], "%"),
+        ("worst low needle, typical set", r["low_typical"], "%"),
+        ("worst high needle, typical set", r["high_typical"], "%"),
+        ("worst low needle, all sets", r["low_worst"], "%"),
+        ("worst high needle, all sets", r["high_worst"], "%"),
+        ("flow sensitivity to bore (d ln q / d ln D)", r["bore_sensitivity"], "-"),
+        ("sets drawn", float(int(samples)), "-"),
     ]
+    return [[label, from_si(value, unit), unit] for label, value, unit in rows] + [
+        ["validity", "ok" if not notes else "outside range: " + "; ".join(notes), "-"]]
 
 
 @spreadsheet_function(
@@ -345,11 +332,10 @@ def fs_tolerance_spread(gauge, wall, needles, length_mm, dp_bar, fuel, temp_c, b
     returns=Returns("number", "bar", "pressure drop of the line"),
     source="dp = (f L/D + K) rho u^2/2, f from Churchill (1977) all regimes, drawn-tubing roughness 1.5 um "
            "(Moody 1944); loss coefficients as in Crane TP-410 (2009)",
+    si=True,
 )
-def fs_line_dp(bore_mm, length_m, flow_g_min, fuel, temp_c, k_total, oil_pct):
-    """Line pressure drop [bar] from bore [mm], length [m], flow [g/min], fuel, temperature [°C], K [-]."""
+def fs_line_dp(D, L, mdot, fuel, T, k_total, oil_pct):
     from fuelsys.flow.lines import line_dp
 
-    rho, mu = _props(fuel, temp_c, oil_pct)
-    return line_dp(np.asarray(flow_g_min) * _G_MIN, np.asarray(bore_mm) * 1e-3, length_m, rho, mu,
-                   k_total=k_total) / _BAR
+    rho, mu = _props(fuel, T, oil_pct)
+    return line_dp(mdot, D, L, rho, mu, k_total=k_total)
