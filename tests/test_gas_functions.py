@@ -50,3 +50,12 @@ def test_used_pct_lowers_a_blend_pressure():
     assert call("FS_CANISTER_PRESSURE", "lpg-70-30", 20, None) == full   # empty cell takes the default 0
     assert call("FS_CANISTER_PRESSURE", "propane", 20, 50) == pytest.approx(call("FS_CANISTER_PRESSURE", "propane", 20))
     assert call("FS_CANISTER_PRESSURE", "lpg-70-30", 20, 100).startswith("FS error: used_pct")
+
+
+def test_gas_jet_regulated_pressure_typed_as_gauge_is_refused():
+    # issue 13: a regulator gauge reading of 0.4 bar typed where bar abs belongs; absolute pressure is
+    # gauge + 1.01325 bar (standard atmosphere, ISO 2533:1975)
+    out = call("FS_GAS_JET_FLOW", 0.3, 0, 0.4, 1.4, "propane", 20)
+    assert out.startswith("FS error: up_bar_abs = 0.4 bar abs looks like a gauge value")
+    assert "1.41325 bar abs" in out
+    assert call("FS_GAS_JET_FLOW", 0.3, 0, 1.41325, 1.2, "propane", 20) > 0

@@ -1,13 +1,8 @@
 """Declarations of the spreadsheet functions, one module an area (see fuelsys.sheet.catalogue).
 
-The helper below is shared by the areas: every spreadsheet temperature is in °C.
+Every declaration is made with ``si=True``: its body takes and returns SI
+values, and the adapter converts from and to the declared units through
+:data:`fuelsys.sheet.catalogue.UNITS`.  A temperature reaches a body in kelvin;
+check it against a fuel's range with ``fuel.check_temperature(T, "temp_c")``
+(the message names the cell argument and shows °C).
 """
-
-import numpy as np
-
-
-def kelvin(fuel, temp_c, name: str = "temp_c"):
-    """A cell temperature [°C] in kelvin, refused outside the fuel's range with a message naming ``name``."""
-    from fuelsys.fuels.base import T0_C
-
-    return fuel.check_temperature(np.asarray(temp_c, dtype=float) + T0_C, name)

@@ -12,9 +12,9 @@ import math
 
 import numpy as np
 
+from fuelsys.equilibrium import HARD_LIMITS, VALIDITY
 from fuelsys.errors import FuelsysInputError
-from fuelsys.fuels.base import T0_C
-from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
+from fuelsys.sheet.catalogue import Arg, Returns, from_si, spreadsheet_function
 
 
 def _flat(cells):
@@ -75,34 +75,12 @@ def _names(cells, n):
     source="every opening sees the same liner pressure drop, m = Cd A (2 rho dp)^0.5 (Lefebvre & Ballal, "
            "Gas Turbine Combustion 3rd ed. 2010, ch. 4); default Cd: Kaddah (1964) plain holes at "
            "negligible annulus velocity",
+    si=True,
 )
-def fs_zone_air(hole_counts, hole_dias_mm, cds, zone_names):
-    """Air fractions by row or by named zone.
-
-    Parameters
-    ----------
-    hole_counts : ndarray
-        Holes in each row [-]
-    hole_dias_mm : ndarray
-        Hole diameter of each row [mm]
-    cds : list or None
-        Discharge coefficients as cells (blank: default) [-]
-    zone_names : list or None
-        Zone names as cells [-]
-
-    Returns
-    -------
-    list
-        Rows of [fraction] or [name, fraction] [-]
-
-    References
-    ----------
-    :func:`fuelsys.combustor.air_fractions`.
-    """
+def fs_zone_air(hole_counts, d, cds, zone_names):
     from fuelsys import combustor
 
     n = np.asarray(hole_counts, dtype=float)
-    d = np.asarray(hole_dias_mm, dtype=float) / 1e3
     if n.size != d.size:
         raise FuelsysInputError(f"hole_dias_mm: one diameter per row of hole_counts is needed "
                                 f"(got {d.size} diameters for {n.size} rows)")
@@ -127,38 +105,16 @@ def fs_zone_air(hole_counts, hole_dias_mm, cds, zone_names):
     returns=Returns("number", "-", "equivalence ratio: fuel/air over the stoichiometric fuel/air"),
     source="phi = (F/A)/(F/A)stoich (Turns, An Introduction to Combustion 3rd ed. 2012, eq. 2.32); "
            "stoichiometric ratio from the fuel's composition",
+    si=True,
 )
-def fs_zone_phi(fuel_g_min, air_g_s, zone_fraction, fuel):
-    """Zone equivalence ratio.
-
-    Parameters
-    ----------
-    fuel_g_min : ndarray
-        Fuel flow [g/min]
-    air_g_s : ndarray
-        Liner air flow [g/s]
-    zone_fraction : ndarray
-        Air share of the zone [-]
-    fuel : Fuel
-        The fuel [-]
-
-    Returns
-    -------
-    ndarray
-        Equivalence ratio [-]
-
-    References
-    ----------
-    :func:`fuelsys.combustor.zone_equivalence_ratio`.
-    """
+def fs_zone_phi(fuel_flow, air, zone_fraction, fuel):
     from fuelsys import combustor
 
-    return combustor.zone_equivalence_ratio(np.asarray(fuel_g_min) / 60000.0, np.asarray(air_g_s) / 1000.0,
-                                            zone_fraction, fuel.stoich_far)
+    return combustor.zone_equivalence_ratio(fuel_flow, air, zone_fraction, fuel.stoich_far)
 
 
-_T_LO_C, _T_HI_C = -73.15, 2726.85  # 200..3000 K: fuelsys.equilibrium.HARD_LIMITS, checked in the tests
-_PHI_LO, _PHI_HI = 0.3, 2.0  # fuelsys.equilibrium.VALIDITY["phi"], checked in the tests
+_T_LO_C, _T_HI_C = (from_si(t, "°C") for t in HARD_LIMITS["t_in"][:2])  # the equilibrium solver's hard limits
+_PHI_LO, _PHI_HI = VALIDITY["phi"][:2]
 
 
 @spreadsheet_function(
@@ -176,39 +132,14 @@ _PHI_LO, _PHI_HI = 0.3, 2.0  # fuelsys.equilibrium.VALIDITY["phi"], checked in t
     source="Gibbs-energy minimisation by element potentials over CO2, H2O, CO, H2, O2, N2, Ar, OH, H, O, NO "
            "(Gordon & McBride, NASA RP-1311, 1994) with NASA Glenn polynomials (McBride, Zehe & Gordon, "
            "NASA/TP-2002-211556); checked against Cantera with GRI-Mech 3.0 thermodynamics",
+    si=True,
 )
-def fs_flame_temp(fuel, phi, t_in_c, p_bar_abs, method):
-    """Flame temperature [°C].
-
-    Parameters
-    ----------
-    fuel : Fuel
-        The fuel [-]
-    phi : ndarray
-        Equivalence ratio [-]
-    t_in_c : ndarray
-        Air temperature [°C]
-    p_bar_abs : ndarray
-        Pressure [bar abs]
-    method : str
-        "equilibrium" or "complete" [-]
-
-    Returns
-    -------
-    ndarray
-        Flame temperature [°C]
-
-    References
-    ----------
-    :func:`fuelsys.equilibrium.adiabatic_flame_temperature`.
-    """
+def fs_flame_temp(fuel, phi, T_in, p, method):
     from fuelsys import equilibrium
 
     lhv_gas = getattr(fuel, "lhv_gas", None)
     h_fuel = float(lhv_gas - fuel.lhv) if lhv_gas is not None else 0.0  # LPG: gas, not liquid, at 25 °C
-    T = equilibrium.adiabatic_flame_temperature(phi, np.asarray(t_in_c) + T0_C, np.asarray(p_bar_abs) * 1e5,
-                                                fuel, h_fuel=h_fuel, method=method)
-    return np.asarray(T) - T0_C
+    return equilibrium.adiabatic_flame_temperature(phi, T_in, p, fuel, h_fuel=h_fuel, method=method)
 
 
 @spreadsheet_function(
@@ -226,39 +157,10 @@ def fs_flame_temp(fuel, phi, t_in_c, p_bar_abs, method):
     source="steady-flow energy balance of adiabatic mixing with ideal-gas air and lean combustion products "
            "from NASA Glenn polynomials (McBride, Zehe & Gordon 2002; Saravanamuttoo et al., Gas Turbine "
            "Theory 6th ed. §2.3)",
+    si=True,
 )
-def fs_mix_temp(t_hot_c, hot_g_s, t_cold_c, cold_g_s, hot_far, fuel):
-    """Mixed-out temperature [°C].
-
-    Parameters
-    ----------
-    t_hot_c : ndarray
-        Hot stream temperature [°C]
-    hot_g_s : ndarray
-        Hot stream flow [g/s]
-    t_cold_c : ndarray
-        Cold stream temperature [°C]
-    cold_g_s : ndarray
-        Cold stream flow [g/s]
-    hot_far : ndarray
-        Fuel/air ratio burned in the hot stream [kg/kg]
-    fuel : Fuel
-        The fuel burned [-]
-
-    Returns
-    -------
-    ndarray
-        Mixed-out temperature [°C]
-
-    References
-    ----------
-    :func:`fuelsys.combustor.mix_temperature`.
-    """
+def fs_mix_temp(T_hot, hot, T_cold, cold, hot_far, fuel):
     from fuelsys import combustor
     from fuelsys.engine import fuel_h_to_c
 
-    y = fuel_h_to_c(fuel)
-    T = combustor.mix_temperature(np.asarray(t_hot_c) + T0_C, np.asarray(hot_g_s) / 1e3,
-                                  np.asarray(t_cold_c) + T0_C, np.asarray(cold_g_s) / 1e3,
-                                  far_hot=hot_far, h_to_c=y)
-    return np.asarray(T) - T0_C
+    return combustor.mix_temperature(T_hot, hot, T_cold, cold, far_hot=hot_far, h_to_c=fuel_h_to_c(fuel))

@@ -11,9 +11,7 @@ from __future__ import annotations
 import numpy as np
 
 from fuelsys.errors import FuelsysInputError
-from fuelsys.fuels.base import T0_C
-from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
-from fuelsys.sheet.decl import kelvin as _kelvin
+from fuelsys.sheet.catalogue import Arg, Returns, from_si, spreadsheet_function
 
 _FUEL = Arg("fuel", "fuel", "-", "built-in fuel name or a fuel table range", default="kerosene")
 _TEMP = Arg("temp_c", "number", "°C", "fuel temperature", default=20.0, gt=-273.15)
@@ -42,34 +40,12 @@ def _liquid(fuel, what="fuel"):
     source="Euler's turbine equation with constant slip, power-input factor and efficiency: isentropic "
            "enthalpy rise ∝ N² (Saravanamuttoo et al., Gas Turbine Theory 6th ed. §4.2); air properties "
            "NASA Glenn polynomials (McBride, Zehe & Gordon 2002); inlet at 15 °C",
+    si=True,
 )
-def fs_case_pressure(rpm, rpm_max, pr_max, ambient_bar_abs):
-    """Case pressure [bar gauge] at ``rpm`` from the design pressure ratio.
-
-    Parameters
-    ----------
-    rpm : array_like
-        Shaft speed [rpm]
-    rpm_max : array_like
-        Design speed [rpm]
-    pr_max : array_like
-        Pressure ratio at design speed [-]
-    ambient_bar_abs : array_like
-        Ambient pressure [bar abs]
-
-    Returns
-    -------
-    ndarray
-        Case pressure [bar gauge]
-
-    References
-    ----------
-    :func:`fuelsys.engine.case_pressure`.
-    """
+def fs_case_pressure(speed, speed_max, pr_max, p_ambient):
     from fuelsys import engine
 
-    n = np.asarray(rpm, dtype=float) / np.asarray(rpm_max, dtype=float)
-    return np.asarray(engine.case_pressure(n, pr_max, np.asarray(ambient_bar_abs) * 1e5)) / 1e5
+    return engine.case_pressure(speed / speed_max, pr_max, p_ambient)
 
 
 @spreadsheet_function(
@@ -85,32 +61,9 @@ def fs_case_pressure(rpm, rpm_max, pr_max, ambient_bar_abs):
     source="steady-flow energy balance with the lower heating value, combustion efficiency as "
            "theoretical/actual fuel-air ratio (Saravanamuttoo et al., Gas Turbine Theory 6th ed. §2.3); "
            "air and lean products from NASA Glenn polynomials (McBride, Zehe & Gordon 2002)",
+    si=True,
 )
-def fs_fuel_demand(air_g_s, t3_c, t4_c, fuel, efficiency):
-    """Fuel flow [g/min] for ``air_g_s`` heated from ``t3_c`` to ``t4_c``.
-
-    Parameters
-    ----------
-    air_g_s : array_like
-        Air flow [g/s]
-    t3_c : array_like
-        Compressor exit temperature [°C]
-    t4_c : array_like
-        Turbine inlet temperature [°C]
-    fuel : Fuel
-        The fuel (its lhv and stoichiometric ratio) [-]
-    efficiency : array_like
-        Combustion efficiency [-]
-
-    Returns
-    -------
-    ndarray
-        Fuel flow [g/min]
-
-    References
-    ----------
-    :func:`fuelsys.engine.fuel_flow`.
-    """
+def fs_fuel_demand(air, T3, T4, fuel, efficiency):
     from fuelsys import engine
 
     lhv = float(getattr(fuel, "lhv", np.nan))
@@ -120,9 +73,7 @@ def fs_fuel_demand(air_g_s, t3_c, t4_c, fuel, efficiency):
         y = engine.fuel_h_to_c(fuel)
     except FuelsysInputError as exc:
         raise FuelsysInputError(f"fuel: {exc}") from None
-    m = engine.fuel_flow(np.asarray(air_g_s, dtype=float) / 1e3, np.asarray(t3_c) + T0_C,
-                         np.asarray(t4_c) + T0_C, lhv, y, efficiency)
-    return np.asarray(m) * 6e4
+    return engine.fuel_flow(air, T3, T4, lhv, y, efficiency)
 
 
 @spreadsheet_function(
@@ -134,56 +85,21 @@ def fs_fuel_demand(air_g_s, t3_c, t4_c, fuel, efficiency):
           Arg("line_dp_bar", "number", "bar", "line, filter and valve pressure drops at that flow", low=0),
           Arg("head_m", "number", "m", "height of the injectors above the tank", default=0.0, low=-5, high=5),
           Arg("g_load", "number", "-", "manoeuvre load factor along that height", default=1.0, low=0, high=20),
-          Arg("margin_pct", "number", "%", "safety margin on the total", default=0.0, low=0, high=200),
+          Arg("margin_pct", "number", "%", "safety margin on the total", default=0.0, low=0, high=200, si="%"),
           _FUEL, _TEMP, _OIL],
     returns=Returns("number", "bar gauge", "pressure needed at the pump outlet"),
     source="sum of series losses plus hydrostatic head ρ g n h (White, Fluid Mechanics 7th ed. §6.9); "
            "fuel density from the fuel model",
+    si=True,
 )
-def fs_pump_need(flow_g_min, case_bar_gauge, needle_dp_bar, line_dp_bar, head_m, g_load, margin_pct, fuel,
-                 temp_c, oil_pct):
-    """Pump outlet pressure [bar gauge] the system needs.
-
-    Parameters
-    ----------
-    flow_g_min : array_like
-        Fuel flow the drops belong to [g/min]
-    case_bar_gauge : array_like
-        Case pressure [bar gauge]
-    needle_dp_bar : array_like
-        Manifold and needle drop [bar]
-    line_dp_bar : array_like
-        Line, filter and valve drops [bar]
-    head_m : array_like
-        Injectors above the tank [m]
-    g_load : array_like
-        Load factor [-]
-    margin_pct : array_like
-        Margin [%]
-    fuel : Fuel
-        The fuel [-]
-    temp_c : array_like
-        Fuel temperature [°C]
-    oil_pct : float
-        Turbine oil in the fuel [% vol]
-
-    Returns
-    -------
-    ndarray
-        Pump outlet pressure [bar gauge]
-
-    References
-    ----------
-    :func:`fuelsys.pump.system_pressure`.
-    """
+def fs_pump_need(mdot, p_case, needle_dp, line_dp, head, g_load, margin_pct, fuel, T, oil_pct):
     fuel = fuel.with_oil(oil_pct)
     from fuelsys import pump
 
-    rho = np.asarray(_liquid(fuel).density(_kelvin(fuel, temp_c)))
-    p = pump.system_pressure(np.asarray(case_bar_gauge) * 1e5, np.asarray(needle_dp_bar) * 1e5,
-                             np.asarray(line_dp_bar) * 1e5, density=rho, head=head_m, g_load=g_load,
+    rho = np.asarray(_liquid(fuel).density(fuel.check_temperature(T, "temp_c")))
+    p = pump.system_pressure(p_case, needle_dp, line_dp, density=rho, head=head, g_load=g_load,
                              margin_pct=margin_pct)
-    return np.asarray(p) / 1e5 + 0.0 * np.asarray(flow_g_min, dtype=float)
+    return np.asarray(p) + 0.0 * mdot  # the flow only sets the shape of the answer
 
 
 @spreadsheet_function(
@@ -207,55 +123,22 @@ def fs_pump_need(flow_g_min, case_bar_gauge, needle_dp_bar, line_dp_bar, head_m,
     source="gear pump with laminar slip ∝ Δp/μ and torque DΔp + friction (Wilson 1949), permanent-magnet "
            "DC motor V = RI + kω, T = kI (Fitzgerald, Kingsley & Umans 2003 §7.2); least squares "
            "(scipy.optimize.least_squares), standard errors from the Jacobian (Bates & Watts 1988)",
+    si=True,
 )
-def fs_pump_fit(flows_g_min, pressures_bar, volts, fuel, temp_c, winding_ohm, kv_rpm_per_v, oil_pct):
-    """Pump fit as a labelled table.
-
-    Parameters
-    ----------
-    flows_g_min : ndarray
-        Test flows [g/min]
-    pressures_bar : ndarray
-        Test outlet pressures [bar gauge]
-    volts : ndarray
-        Test voltages [V]
-    fuel : Fuel
-        Test fuel [-]
-    temp_c : ndarray or float
-        Fuel temperature(s) [°C]
-    oil_pct : float
-        Turbine oil in the fuel [% vol]
-    winding_ohm : float or None
-        Measured motor resistance [Ω]
-    kv_rpm_per_v : float or None
-        Motor speed constant [rpm/V]
-
-    Returns
-    -------
-    list
-        Two rows: labels, values.
-
-    References
-    ----------
-    :func:`fuelsys.pump.fit_pump`.
-    """
+def fs_pump_fit(mdot, p, volts, fuel, T, winding_ohm, kv_rpm_per_v, oil_pct):
     fuel = fuel.with_oil(oil_pct)
     from fuelsys import pump
 
-    q_g = np.atleast_1d(np.asarray(flows_g_min, dtype=float))
-    p = np.atleast_1d(np.asarray(pressures_bar, dtype=float))
-    v = np.atleast_1d(np.asarray(volts, dtype=float))
-    t = np.atleast_1d(np.asarray(temp_c, dtype=float))
-    if t.size not in (1, q_g.size):
-        raise FuelsysInputError(f"temp_c: give one temperature or one per test point ({q_g.size}), got {t.size}")
-    T = _kelvin(_liquid(fuel), t)
+    mdot, p, v, T = (np.atleast_1d(np.asarray(x, dtype=float)) for x in (mdot, p, volts, T))
+    if T.size not in (1, mdot.size):
+        raise FuelsysInputError(f"temp_c: give one temperature or one per test point ({mdot.size}), got {T.size}")
+    T = _liquid(fuel).check_temperature(T, "temp_c")
     rho = np.asarray(fuel.density(T))
     mu = np.asarray(fuel.dynamic_viscosity(T))
-    if q_g.size != p.size or q_g.size != v.size:
+    if mdot.size != p.size or mdot.size != v.size:
         raise FuelsysInputError(
-            f"flows, pressures and volts need the same count of test points (got {q_g.size}, {p.size}, {v.size})")
-    q = q_g / 6e4 / rho
-    fit = pump.fit_pump(q, p * 1e5, v, mu, winding_ohm=winding_ohm, kv=kv_rpm_per_v)
+            f"flows, pressures and volts need the same count of test points (got {mdot.size}, {p.size}, {v.size})")
+    fit = pump.fit_pump(mdot / rho, p, v, mu, winding_ohm=winding_ohm, kv=kv_rpm_per_v)
     return pump.fit_row(fit)
 
 
@@ -274,39 +157,14 @@ def _pump(coefficients):
           _FUEL, _TEMP, _OIL],
     returns=Returns("number", "V", "motor terminal voltage"),
     source="the fitted gear-pump and DC-motor model (Wilson 1949; Fitzgerald et al. 2003 §7.2)",
+    si=True,
 )
-def fs_pump_volts(coefficients, flow_g_min, p_bar_gauge, fuel, temp_c, oil_pct):
-    """Voltage [V] for a flow [g/min] against a pressure [bar gauge].
-
-    Parameters
-    ----------
-    coefficients : list
-        FS_PUMP_FIT's range [-]
-    flow_g_min : array_like
-        Flow [g/min]
-    p_bar_gauge : array_like
-        Outlet pressure [bar gauge]
-    fuel : Fuel
-        The fuel [-]
-    temp_c : array_like
-        Fuel temperature [°C]
-    oil_pct : float
-        Turbine oil in the fuel [% vol]
-
-    Returns
-    -------
-    ndarray
-        Voltage [V]
-
-    References
-    ----------
-    :meth:`fuelsys.pump.GearPump.volts`.
-    """
+def fs_pump_volts(coefficients, mdot, p, fuel, T, oil_pct):
     fuel = fuel.with_oil(oil_pct)
     pmp = _pump(coefficients)
-    T = _kelvin(_liquid(fuel), temp_c)
-    q = np.asarray(flow_g_min, dtype=float) / 6e4 / np.asarray(fuel.density(T))
-    v = np.asarray(pmp.volts(q, np.asarray(p_bar_gauge) * 1e5, fuel.dynamic_viscosity(T)))
+    T = _liquid(fuel).check_temperature(T, "temp_c")
+    q = mdot / np.asarray(fuel.density(T))
+    v = np.asarray(pmp.volts(q, p, fuel.dynamic_viscosity(T)))
     pmp.flag_untested(v)
     return v
 
@@ -320,39 +178,13 @@ def fs_pump_volts(coefficients, flow_g_min, p_bar_gauge, fuel, temp_c, oil_pct):
           _FUEL, _TEMP, _OIL],
     returns=Returns("number", "g/min", "fuel flow delivered"),
     source="the fitted gear-pump and DC-motor model (Wilson 1949; Fitzgerald et al. 2003 §7.2)",
+    si=True,
 )
-def fs_pump_flow(coefficients, volts, p_bar_gauge, fuel, temp_c, oil_pct):
-    """Flow [g/min] at a voltage against a pressure; refused where the pump cannot flow.
-
-    Parameters
-    ----------
-    coefficients : list
-        FS_PUMP_FIT's range [-]
-    volts : array_like
-        Voltage [V]
-    p_bar_gauge : array_like
-        Outlet pressure [bar gauge]
-    fuel : Fuel
-        The fuel [-]
-    temp_c : array_like
-        Fuel temperature [°C]
-    oil_pct : float
-        Turbine oil in the fuel [% vol]
-
-    Returns
-    -------
-    ndarray
-        Flow [g/min]
-
-    References
-    ----------
-    :meth:`fuelsys.pump.GearPump.flow`.
-    """
+def fs_pump_flow(coefficients, volts, dp, fuel, T, oil_pct):
     fuel = fuel.with_oil(oil_pct)
     pmp = _pump(coefficients)
-    T = _kelvin(_liquid(fuel), temp_c)
+    T = _liquid(fuel).check_temperature(T, "temp_c")
     mu = fuel.dynamic_viscosity(T)
-    dp = np.asarray(p_bar_gauge, dtype=float) * 1e5
     pmp.flag_untested(volts)
     q = np.asarray(pmp.flow(volts, dp, mu))
     if np.any(q <= 0):
@@ -361,6 +193,6 @@ def fs_pump_flow(coefficients, volts, p_bar_gauge, fuel, temp_c, oil_pct):
         i = int(np.flatnonzero(np.ravel(np.broadcast_to(q, vb[0].shape)) <= 0)[0])
         raise FuelsysInputError(
             f"the pump delivers nothing at {np.ravel(vb[0])[i]:.2f} V against "
-            f"{np.ravel(np.broadcast_to(dp, vb[0].shape))[i] / 1e5:.2f} bar: it needs more than "
+            f"{from_si(np.ravel(np.broadcast_to(dp, vb[0].shape))[i], 'bar gauge'):.2f} bar: it needs more than "
             f"{np.ravel(vb[1])[i]:.2f} V to start flowing")
-    return q * np.asarray(fuel.density(T)) * 6e4
+    return q * np.asarray(fuel.density(T))

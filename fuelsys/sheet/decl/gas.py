@@ -8,9 +8,7 @@ from __future__ import annotations
 import numpy as np
 
 from fuelsys.errors import FuelsysInputError
-from fuelsys.fuels.base import P_ATM, T0_C
-from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
-from fuelsys.sheet.decl import kelvin as _kelvin
+from fuelsys.sheet.catalogue import Arg, Returns, from_si, spreadsheet_function
 
 _GAS = Arg("gas", "text", "-", "propane, butane, isobutane or a blend lpg-XX-YY (% by mass)")
 
@@ -41,46 +39,15 @@ def _get(gas):
     source="isentropic expansion with the real-gas equation of state (CoolProp) for a pure gas through an "
            "orifice; otherwise ideal gas with real γ and Z and Fanno friction along the bore (Anderson, "
            "Modern Compressible Flow 3rd ed. §3.9, §5.4); cd 0.8 after Lichtarowicz et al. (1965)",
+    si=True,
 )
-def fs_gas_jet_flow(bore_mm, length_mm, up_bar_abs, down_bar_abs, gas, temp_c, cd):
-    """Gas flow [g/min] through a jet.
-
-    Parameters
-    ----------
-    bore_mm : array_like
-        Bore [mm]
-    length_mm : array_like
-        Length [mm]
-    up_bar_abs : array_like
-        Upstream pressure [bar abs]
-    down_bar_abs : array_like
-        Downstream pressure [bar abs]
-    gas : str
-        Gas name [-]
-    temp_c : array_like
-        Gas temperature [°C]
-    cd : array_like
-        Discharge coefficient [-]
-
-    Returns
-    -------
-    ndarray
-        Mass flow [g/min]
-
-    References
-    ----------
-    :func:`fuelsys.gas_start.jet_mass_flow`.
-    """
+def fs_gas_jet_flow(d, L, up, down, gas, T, cd):
     from fuelsys import gas_start
 
     fluid = _get(gas)
-    up = np.asarray(up_bar_abs, dtype=float) * 1e5
-    down = np.asarray(down_bar_abs, dtype=float) * 1e5
     if np.any(down > up):
         raise FuelsysInputError("down_bar_abs must not be above up_bar_abs (gas flows from high to low pressure)")
-    L = np.asarray(length_mm, dtype=float) * 1e-3
-    T = _kelvin(fluid, temp_c)
-    d = np.asarray(bore_mm, dtype=float) * 1e-3
+    T = fluid.check_temperature(T, "temp_c")
     if np.all(L == 0) or np.all(L > 0):
         m = gas_start.jet_mass_flow(fluid, d, L, up, down, T, cd)
     else:  # a column mixing orifices and needles: each kind by its own method
@@ -88,7 +55,7 @@ def fs_gas_jet_flow(bore_mm, length_mm, up_bar_abs, down_bar_abs, gas, temp_c, c
         m = np.empty(b[0].shape)
         for sel in (b[1] == 0, b[1] > 0):
             m[sel] = gas_start.jet_mass_flow(fluid, *(x[sel] for x in b))
-    return np.asarray(m) * 6e4
+    return m
 
 
 @spreadsheet_function(
@@ -102,7 +69,8 @@ def fs_gas_jet_flow(bore_mm, length_mm, up_bar_abs, down_bar_abs, gas, temp_c, c
           Arg("ambient_c", "number", "°C", "air temperature round the canister (also the start)", gt=-273.15),
           Arg("shell", "text", "-", "canister material", default="steel", choices=("steel", "aluminium")),
           Arg("p_need_bar_abs", "number", "bar abs", "pressure the jet needs; the table marks when it is lost; "
-              "empty: the standard atmosphere (below it no gas leaves the canister)", default=None, gt=0),
+              "empty: the standard atmosphere, 1.01325 (below it no gas leaves the canister)", default=1.01325,
+              gt=0),
           Arg("rows", "number", "-", "rows of the table after its header", default=11, low=2, high=200,
               integer=True)],
     returns=Returns("table", "-", "header row, then rows of minutes, canister °C, bar abs, liquid g left, "
@@ -110,55 +78,21 @@ def fs_gas_jet_flow(bore_mm, length_mm, up_bar_abs, down_bar_abs, gas, temp_c, c
     source="lumped energy balance: latent heat drawn from liquid and shell, natural convection from the air "
            "(Churchill & Chu 1975), solved with solve_ivp; CoolProp saturation properties; shell specific "
            "heat from Incropera et al. 6th ed. Table A.1",
+    si=True,
 )
-def fs_canister_chill(gas, liquid_g, shell_g, flow_g_min, minutes, ambient_c, shell, p_need_bar_abs, rows):
-    """Chill of a canister over a run, as a table.
-
-    Parameters
-    ----------
-    gas : str
-        Gas name [-]
-    liquid_g : float
-        Liquid at the start [g]
-    shell_g : float
-        Shell mass [g]
-    flow_g_min : float
-        Gas drawn [g/min]
-    minutes : float
-        Run length [min]
-    ambient_c : float
-        Air temperature [°C]
-    shell : str
-        Shell material [-]
-    p_need_bar_abs : float or None
-        Pressure the jet needs [bar abs]
-    rows : float
-        Table rows [-]
-
-    Returns
-    -------
-    list
-        Header and rows.
-
-    References
-    ----------
-    :func:`fuelsys.gas_start.canister_chill`.
-    """
+def fs_canister_chill(gas, m_liquid, m_shell, mdot, duration, T_air, shell, p_need, rows):
     from fuelsys import gas_start
 
     fluid = _get(gas)
-    # without a stated need, gas still flows only while the canister is above the air outside it
-    need = P_ATM if p_need_bar_abs is None else float(p_need_bar_abs) * 1e5
-    out = gas_start.canister_chill(fluid, float(liquid_g) / 1e3, float(shell_g) / 1e3,
-                                   float(flow_g_min) / 6e4, float(minutes) * 60.0,
-                                   float(ambient_c) + T0_C, shell=str(shell).strip().lower(),
-                                   p_required=need, n_out=int(rows))
+    out = gas_start.canister_chill(fluid, float(m_liquid), float(m_shell), float(mdot), float(duration),
+                                   float(T_air), shell=str(shell).strip().lower(), p_required=float(p_need),
+                                   n_out=int(rows))
     header = ["minutes", "temp_c", "pressure_bar_abs", "liquid_g", "heat_from_air_w", "pressure_ok"]
     table = [header]
     for t, T, p, m, q in zip(out["time"], out["temperature"], out["pressure"], out["liquid_mass"],
                              out["heat_gain"]):
-        ok = "yes" if p >= need else "no"
+        ok = "yes" if p >= p_need else "no"
         if m <= 0 and t > 0:
             ok = "empty"
-        table.append([t / 60.0, T - T0_C, p / 1e5, m * 1e3, q, ok])
+        table.append([from_si(t, "min"), from_si(T, "°C"), from_si(p, "bar abs"), from_si(m, "g"), q, ok])
     return table

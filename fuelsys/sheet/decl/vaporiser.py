@@ -124,7 +124,7 @@ def _run(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c
     name="FS_TUBE_AIR", category="vaporiser",
     summary="Air flow into one vaporiser tube from the liner pressure drop",
     args=[_BORE,
-          Arg("liner_dp_pct", "number", "%", "liner pressure drop, per cent of the case pressure", gt=0, lt=100),
+          Arg("liner_dp_pct", "number", "% of case pressure", "liner pressure drop", gt=0, lt=100),
           _CASE, _T3,
           Arg("cd", "number", "-", "discharge coefficient of the tube inlet", default=0.6, gt=0, high=1)],
     returns=Returns("number", "g/s", "air mass flow into the tube"),
