@@ -21,6 +21,7 @@ from __future__ import annotations
 
 import json
 import os
+import signal
 import sys
 import time
 
@@ -237,8 +238,6 @@ def cmd_recalc(args) -> int:
 
 
 def _recalc_libreoffice(args) -> int:
-    import tempfile
-
     from fuelsys.sheet import xlsx
 
     try:
@@ -262,19 +261,17 @@ def _recalc_libreoffice(args) -> int:
         return 2
     t0 = time.perf_counter()
     target = os.path.realpath(args.output or args.book)
-    fd, tmp = tempfile.mkstemp(prefix=".~fuelsys-lo-", suffix=os.path.splitext(target)[1],
-                               dir=os.path.dirname(target))
-    os.close(fd)
     try:
-        info = recalc_book(args.book, tmp)
-        if not os.path.exists(tmp) or os.path.getsize(tmp) == 0:
-            raise RuntimeError("LibreOffice wrote no workbook")
-        os.replace(tmp, target)
+        # recalc_book writes through a temporary file beside the target and replaces it atomically
+        info = recalc_book(args.book, target)
+    except KeyboardInterrupt as exc:  # SIGINT, or SIGTERM/SIGHUP raised by the engine
+        signum = getattr(exc, "signum", signal.SIGINT)
+        _err(f"fuelsys recalc: interrupted by {signal.Signals(signum).name}; LibreOffice ended, nothing written")
+        return 128 + signum
+    except xlsx.WriteError as exc:
+        _err(f"fuelsys recalc: refused: {exc}")
+        return 2
     except Exception as exc:
-        try:
-            os.unlink(tmp)
-        except OSError:
-            pass
         _err(f"fuelsys recalc: LibreOffice could not compute the workbook; nothing written ({exc})")
         return 2
     _err("note: LibreOffice saves the whole workbook again (the built-in engine changes only the values)")

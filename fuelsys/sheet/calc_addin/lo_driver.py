@@ -9,7 +9,9 @@ LibreOffice's UNO bridge supports, whatever environment fuelsys lives in.
 A job::
 
     {"soffice": "/usr/bin/soffice", "profile": "/tmp/x" or null, "timeout": 120,
-     "pidfile": "/tmp/x.pid", "extensions": ["/path/fuelsys.oxt"],
+     "pidfile": "/tmp/x.pid", "workdir": "/tmp/fuelsys-lo-<pid>-<random>" or null,
+     "parent_pid": 1234, "cleanup": ["/tmp/fuelsys-recalc-<pid>-<random>"],
+     "extensions": ["/path/fuelsys.oxt"],
      "books": [{"src": "in.xlsx", "dst": "out.xlsx", "read": true,
                 "timings": [{"name": "fs", "sheet": "bench", "range": "A1:A10000",
                              "result": "B1:B10000", "repeat": 3}]}]}
@@ -23,6 +25,14 @@ recalculation with ``calculateAll()``, time the requested recalculations,
 store it as .xlsx when ``dst`` is given, read every formula cell when
 ``read`` is true, close it; then shut soffice down (the desktop's
 terminate(), then the process group killed after a timeout) in every case.
+
+Stopping: SIGTERM, SIGINT and SIGHUP are blocked in every thread and taken by
+one waiting thread, and a second thread watches ``parent_pid`` (the runner
+also sets PR_SET_PDEATHSIG on Linux); either ends soffice's process group at
+once (SIGTERM, SIGKILL after 1 s), removes the session's files (the folder
+``workdir``: profile, soffice's log and TMPDIR, the book's copy) and, when
+the parent has died, the runner's folders listed in ``cleanup``, then exits.
+soffice itself gets SIGKILL should this driver die.
 """
 
 import json
@@ -32,15 +42,22 @@ import signal
 import subprocess
 import sys
 import tempfile
+import threading
 import time
 import traceback
 import uuid
 
-import uno
-import unohelper
-from com.sun.star.beans import PropertyValue
-from com.sun.star.task import XInteractionHandler
-from com.sun.star.ucb import XCommandEnvironment, XProgressHandler
+#: the signals that stop a session; blocked in every thread and taken by one waiting thread
+#: (set before ``import uno`` starts any thread), so they act at once even while a UNO call blocks
+STOP_SIGNALS = tuple(getattr(signal, n) for n in ("SIGTERM", "SIGINT", "SIGHUP") if hasattr(signal, n))
+if __name__ == "__main__" and hasattr(signal, "pthread_sigmask"):
+    signal.pthread_sigmask(signal.SIG_BLOCK, STOP_SIGNALS)
+
+import uno  # noqa: E402  (after the signal mask)
+import unohelper  # noqa: E402
+from com.sun.star.beans import PropertyValue  # noqa: E402
+from com.sun.star.task import XInteractionHandler  # noqa: E402
+from com.sun.star.ucb import XCommandEnvironment, XProgressHandler  # noqa: E402
 
 XLSX_FILTER = "Calc MS Excel 2007 XML"
 # com.sun.star.sheet.CellFlags.FORMULA and com.sun.star.sheet.FormulaResult
@@ -104,18 +121,23 @@ class _Env(unohelper.Base, XCommandEnvironment):
 class Office:
     """One soffice process with its own profile and pipe."""
 
-    def __init__(self, soffice, profile=None, timeout=120.0, pidfile=None):
+    def __init__(self, soffice, profile=None, timeout=120.0, pidfile=None, workdir=None):
         self.soffice = soffice
         self.timeout = float(timeout)
         self.pidfile = pidfile
+        # everything of this session (profile unless given, soffice's log and TMPDIR, book copies) lives
+        # in workdir: the runner's own folder, or one made here with this process's pid in its name
+        self.own_workdir = workdir is None
+        self.workdir = workdir or tempfile.mkdtemp(prefix=f"fuelsys-lo-{os.getpid()}-")
         self.own_profile = profile is None
-        self.profile = profile or tempfile.mkdtemp(prefix="fuelsys-lo-profile-")
+        self.profile = profile or os.path.join(self.workdir, "profile")
         self.pipe = "fuelsys-" + uuid.uuid4().hex
         self.proc = None
         self.ctx = None
         self.desktop = None
         self.notes = []
-        self.log_path = os.path.join(tempfile.gettempdir(), self.pipe + ".soffice.log")
+        self.log_path = os.path.join(self.workdir, "soffice.log")
+        self.tmpdir = os.path.join(self.workdir, "tmp")
 
     def start(self):
         os.makedirs(self.profile, exist_ok=True)
@@ -124,9 +146,11 @@ class Office:
                f"--accept=pipe,name={self.pipe};urp;StarOffice.ComponentContext"]
         env = dict(os.environ)
         env.setdefault("SAL_USE_VCLPLUGIN", "svp")
+        os.makedirs(self.tmpdir, exist_ok=True)
+        env["TMPDIR"] = self.tmpdir  # LibreOffice's own temporary files go with the session's folder
         self._log = open(self.log_path, "wb")
         self.proc = subprocess.Popen(cmd, stdin=subprocess.DEVNULL, stdout=self._log, stderr=subprocess.STDOUT,
-                                     env=env, start_new_session=True)
+                                     env=env, start_new_session=True, preexec_fn=_soffice_preexec(os.getpid()))
         if self.pidfile:
             with open(self.pidfile, "w") as fh:
                 fh.write(str(self.proc.pid))
@@ -170,7 +194,7 @@ class Office:
     def run_book(self, book):
         """Load a copy of the book (so no lock file appears beside the original), compute, store, read."""
         out = {"src": book["src"]}
-        work = tempfile.mkdtemp(prefix="fuelsys-lo-book-")
+        work = tempfile.mkdtemp(prefix="book-", dir=self.workdir)
         try:
             copy = os.path.join(work, os.path.basename(book["src"]))
             shutil.copyfile(book["src"], copy)
@@ -266,12 +290,45 @@ class Office:
                 pass
             self._log.close()
         self.proc = None
-        if self.own_profile and not keep_profile:
+        if not keep_profile:
+            self.remove_files()
+
+    def abort(self):
+        """End soffice's process group at once (SIGTERM, SIGKILL after 1 s); remove this session's files.
+
+        A killed soffice leaves the sockets of its pipes in /tmp; those its
+        processes have open are found first (Linux /proc) and removed after.
+        """
+        proc = self.proc
+        sockets = []
+        if proc is not None:
+            sockets = _group_sockets(proc.pid)
+            _kill_group(proc.pid, grace=1.0)
+        self.remove_files()
+        for path in sockets:
+            try:
+                os.remove(path)
+            except OSError:
+                pass
+
+    def remove_files(self):
+        """This session's own files: the profile unless it was given, the log, LibreOffice's temp files,
+        and the socket of soffice's pipe (which soffice removes only when it ends in order)."""
+        for folder in _PIPE_DIRS:
+            try:
+                os.remove(os.path.join(folder, f"OSL_PIPE_{os.getuid()}_{self.pipe}"))
+            except (OSError, AttributeError):
+                pass
+        if self.own_profile:
             shutil.rmtree(self.profile, ignore_errors=True)
-        try:
-            os.remove(self.log_path)
-        except OSError:
-            pass
+        if self.own_workdir:
+            shutil.rmtree(self.workdir, ignore_errors=True)
+        else:
+            shutil.rmtree(self.tmpdir, ignore_errors=True)
+            try:
+                os.remove(self.log_path)
+            except OSError:
+                pass
 
 
 def read_cells(doc):
@@ -298,15 +355,136 @@ def read_cells(doc):
     return cells
 
 
+_PR_SET_PDEATHSIG = 1
+#: where LibreOffice's runtime puts the socket of a named pipe (fixed places, not TMPDIR)
+_PIPE_DIRS = ("/tmp", "/var/tmp")
+
+
+def _libc():
+    if not sys.platform.startswith("linux"):
+        return None
+    try:
+        import ctypes
+
+        return ctypes.CDLL(None, use_errno=True)
+    except (OSError, ImportError):
+        return None
+
+
+_LIBC = _libc()  # loaded before any fork
+
+
+def _soffice_preexec(parent):
+    """In soffice's child before exec: the stop signals unblocked again; SIGKILL when this driver dies."""
+
+    def preexec():
+        if hasattr(signal, "pthread_sigmask"):
+            signal.pthread_sigmask(signal.SIG_UNBLOCK, STOP_SIGNALS)
+        if _LIBC is not None:
+            _LIBC.prctl(_PR_SET_PDEATHSIG, int(signal.SIGKILL), 0, 0, 0)
+        if os.getppid() != parent:
+            os.kill(os.getpid(), signal.SIGKILL)
+
+    return preexec if os.name == "posix" else None
+
+
+def _group_sockets(pgid):
+    """Paths of the LibreOffice pipe sockets (in /tmp, /var/tmp) that the processes of a group have open."""
+    try:
+        inodes = set()
+        for entry in os.scandir("/proc"):
+            if not entry.name.isdigit():
+                continue
+            try:
+                with open(f"/proc/{entry.name}/stat", "rb") as fh:
+                    fields = fh.read().rsplit(b")", 1)[1].split()
+                if int(fields[2]) != pgid:  # the field after state and ppid: the process group
+                    continue
+                for fd in os.scandir(f"/proc/{entry.name}/fd"):
+                    link = os.readlink(fd.path)
+                    if link.startswith("socket:["):
+                        inodes.add(link[8:-1])
+            except (OSError, ValueError, IndexError):
+                continue
+        paths = []
+        with open("/proc/net/unix") as fh:
+            next(fh)
+            for line in fh:
+                parts = line.split()
+                if len(parts) >= 8 and parts[6] in inodes:
+                    path = parts[7]
+                    if os.path.dirname(path) in _PIPE_DIRS and os.path.basename(path).startswith("OSL_PIPE_"):
+                        paths.append(path)
+        return paths
+    except OSError:
+        return []
+
+
+def _kill_group(pgid, grace=1.0):
+    try:
+        os.killpg(pgid, signal.SIGTERM)
+    except OSError:
+        return
+    deadline = time.monotonic() + grace
+    while time.monotonic() < deadline:
+        try:
+            os.killpg(pgid, 0)
+        except OSError:
+            return
+        time.sleep(0.05)
+    try:
+        os.killpg(pgid, signal.SIGKILL)
+    except OSError:
+        pass
+
+
+#: held by whoever ends the process: the main thread's orderly end, or an abort
+_EXIT = threading.Lock()
+
+
+def _abort(office, job, why):
+    """End soffice and remove the session's files at once, then exit (from a guard thread)."""
+    if not _EXIT.acquire(blocking=False):
+        return  # the main thread is already ending the session
+    try:
+        office.abort()
+        parent = job.get("parent_pid")
+        if parent and os.getppid() != parent:  # fuelsys is gone: nobody else removes its scratch folders
+            for path in job.get("cleanup", []):
+                shutil.rmtree(path, ignore_errors=True)
+        try:
+            json.dump({"ok": False, "error": why, "notes": office.notes}, sys.stdout)
+            sys.stdout.flush()
+        except (OSError, ValueError):
+            pass
+    finally:
+        os._exit(3)
+
+
+def _guard(office, job):
+    """Threads that abort the session on a stop signal or when the parent (fuelsys) has died."""
+    if hasattr(signal, "sigwait"):
+        def waiter():
+            signum = signal.sigwait(STOP_SIGNALS)
+            _abort(office, job, f"stopped by signal {signal.Signals(signum).name}")
+
+        threading.Thread(target=waiter, name="stop-signals", daemon=True).start()
+    parent = job.get("parent_pid")
+    if parent:
+        def watchdog():
+            while os.getppid() == parent:
+                time.sleep(0.25)
+            _abort(office, job, "fuelsys, which started this session, has ended")
+
+        threading.Thread(target=watchdog, name="parent-watchdog", daemon=True).start()
+
+
 def main():
     job = json.load(sys.stdin)
-    office = Office(job["soffice"], job.get("profile"), job.get("timeout", 120), job.get("pidfile"))
+    office = Office(job["soffice"], job.get("profile"), job.get("timeout", 120), job.get("pidfile"),
+                    job.get("workdir"))
     answer = {"ok": False}
-
-    def _term(signum, frame):
-        raise SystemExit(f"stopped by signal {signum}")
-
-    signal.signal(signal.SIGTERM, _term)
+    _guard(office, job)
     try:
         t0 = time.perf_counter()
         office.start()
@@ -323,6 +501,7 @@ def main():
         answer["error"] = f"{type(exc).__name__}: {exc}"
         answer["traceback"] = traceback.format_exc()
     finally:
+        _EXIT.acquire()  # an abort under way ends the process here
         office.stop()
         answer["notes"] = office.notes
     json.dump(answer, sys.stdout)

@@ -7,7 +7,10 @@ Python fuelsys runs in.  So each session runs
 with a job in JSON; the driver starts soffice with a unique profile and pipe
 in its own process group and shuts it down in every case.  Should the driver
 itself be stopped (a timeout here), this module kills soffice's process group
-from the pid the driver recorded, so no soffice is left running.
+from the pid the driver recorded, so no soffice is left running.  SIGINT,
+SIGTERM and SIGHUP during a session, or this process's death, end the driver
+and soffice and remove their files (see :func:`run_session`); what a run
+killed outright leaves is removed by the next one (:func:`clean_stale`).
 
 Main entry points: :func:`recalc_book` (used by ``fuelsys recalc --engine
 libreoffice``), :func:`install_extension` (``fuelsys libreoffice install``)
@@ -16,16 +19,23 @@ and :func:`run_session` (anything else, e.g. the live tests).
 
 from __future__ import annotations
 
+import contextlib
 import functools
 import json
 import os
+import re
+import secrets
 import shutil
 import signal
+import socket
 import subprocess
 import sys
 import tempfile
+import threading
 import time
 from pathlib import Path
+
+from fuelsys.sheet import xlsx
 
 #: LibreOffice maps plain FS_ names in .xlsx files to the add-in from this version on
 MIN_VERSION = (25, 2)
@@ -35,6 +45,180 @@ _DRIVER = Path(__file__).with_name("lo_driver.py")
 
 class LibreOfficeError(RuntimeError):
     """LibreOffice is missing, too old, or a session failed."""
+
+
+class OutputRefused(xlsx.WriteError):
+    """The output cannot be written where it was asked for (nothing is written)."""
+
+
+class Interrupted(KeyboardInterrupt):
+    """fuelsys was stopped by a signal (SIGINT, SIGTERM or SIGHUP) during a LibreOffice session."""
+
+    def __init__(self, signum: int = signal.SIGINT):
+        super().__init__(f"stopped by {signal.Signals(signum).name}")
+        self.signum = int(signum)
+
+
+#: the signals that stop a session in an orderly way (the driver and soffice are ended, files removed)
+STOP_SIGNALS = tuple(getattr(signal, n) for n in ("SIGTERM", "SIGINT", "SIGHUP") if hasattr(signal, n))
+
+
+@contextlib.contextmanager
+def stop_signals_raise():
+    """SIGTERM and SIGHUP raise :class:`Interrupted` meanwhile, as SIGINT raises KeyboardInterrupt.
+
+    So a ``finally`` ends the driver and soffice and removes the temporary
+    files, instead of the process ending on the spot.  Only in the main
+    thread (where Python runs signal handlers); elsewhere a no-op.
+    """
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+
+    def _raise(signum, frame):
+        raise Interrupted(signum)
+
+    old = {}
+    for sig in STOP_SIGNALS:
+        if sig != signal.SIGINT:
+            old[sig] = signal.signal(sig, _raise)
+    try:
+        yield
+    finally:
+        for sig, handler in old.items():
+            signal.signal(sig, handler)
+
+
+# ---------------------------------------------------------------------------
+# this engine's own temporary files, and those an earlier run left when it was killed
+
+#: a session or recalc folder in TMPDIR: fuelsys-lo-<pid>-<random>, fuelsys-recalc-<pid>-<random>
+STALE_SCRATCH = re.compile(r"^fuelsys-(?:lo|recalc)-(?P<pid>[0-9]+)-[A-Za-z0-9_]+$")
+#: the temporary output beside the output: .~fuelsys-lo-<host>-<pid>-<8 hex><suffix>
+STALE_OUTPUT = re.compile(r"^\.~fuelsys-lo-(?P<host>[A-Za-z0-9._-]+)-(?P<pid>[0-9]+)-[0-9a-f]{8}\.[A-Za-z0-9]+$")
+
+
+def _host() -> str:
+    """This machine's name as it appears in temporary names (a shared folder may hold another's)."""
+    name = "".join(c if c.isalnum() or c in ".-_" else "_" for c in socket.gethostname())[:64]
+    return name or "host"
+
+
+def make_scratch(kind: str, dir=None) -> str:
+    """A new temporary folder ``fuelsys-<kind>-<pid>-<random>`` (in TMPDIR unless ``dir``)."""
+    return tempfile.mkdtemp(prefix=f"fuelsys-{kind}-{os.getpid()}-", dir=dir)
+
+
+def temp_output_name(target) -> str:
+    """The name of the temporary file written beside ``target`` before it replaces it."""
+    suffix = os.path.splitext(os.fspath(target))[1] or ".xlsx"
+    return f".~fuelsys-lo-{_host()}-{os.getpid()}-{secrets.token_hex(4)}{suffix}"
+
+
+def _pid_alive(pid: int) -> bool:
+    if pid == os.getpid():
+        return True
+    try:
+        os.kill(pid, 0)
+    except ProcessLookupError:
+        return False
+    except (PermissionError, OverflowError, ValueError):
+        return True  # someone else's process, or a number we cannot judge: not provably dead
+    return True
+
+
+def _cmdline(pid: int) -> str:
+    try:
+        return Path(f"/proc/{pid}/cmdline").read_bytes().replace(b"\0", b" ").decode("utf-8", "replace")
+    except OSError:
+        return ""
+
+
+def _end_stale_soffice(folder: Path) -> None:
+    """Kill the process group a dead session recorded, if its leader still names that session's folder."""
+    try:
+        pgid = int((folder / "soffice.pid").read_text().strip())
+    except (OSError, ValueError):
+        return
+    if pgid <= 1 or str(folder) not in _cmdline(pgid):
+        return  # gone, or the number now belongs to an unrelated process
+    _kill_group(pgid)
+
+
+#: the socket of a session's pipe, which soffice leaves when it is killed: OSL_PIPE_<uid>_fuelsys-<32 hex>
+STALE_PIPE = re.compile(r"^OSL_PIPE_(?P<uid>[0-9]+)_fuelsys-[0-9a-f]{32}$")
+_PIPE_DIRS = ("/tmp", "/var/tmp")
+
+
+def _clean_stale_pipes(folders=_PIPE_DIRS) -> list[str]:
+    """Remove this user's session pipe sockets that nothing listens on any more."""
+    if not hasattr(os, "getuid") or not hasattr(socket, "AF_UNIX"):
+        return []
+    removed = []
+    for folder in folders:
+        try:
+            entries = list(os.scandir(folder))
+        except OSError:
+            continue
+        for e in entries:
+            m = STALE_PIPE.match(e.name)
+            if not m or int(m["uid"]) != os.getuid():
+                continue
+            with socket.socket(socket.AF_UNIX, socket.SOCK_STREAM) as sock:
+                sock.settimeout(1.0)
+                try:
+                    sock.connect(e.path)
+                    continue  # a soffice listens: in use
+                except ConnectionRefusedError:
+                    pass
+                except OSError:
+                    continue
+            try:
+                os.unlink(e.path)
+                removed.append(e.path)
+            except OSError:
+                pass
+    return removed
+
+
+def clean_stale(output_folder=None, *, tmpdir=None) -> list[str]:
+    """Remove what LibreOffice runs killed earlier left behind; return the paths removed.
+
+    Only names this engine makes (:data:`STALE_SCRATCH` in TMPDIR,
+    :data:`STALE_OUTPUT` in ``output_folder`` with this machine's name), and
+    only when the process named in them has ended.  A soffice still running
+    on such a session's profile is ended first.
+    """
+    removed = []
+    tmp = Path(tmpdir or tempfile.gettempdir())
+    try:
+        entries = list(os.scandir(tmp))
+    except OSError:
+        entries = []
+    for e in entries:
+        m = STALE_SCRATCH.match(e.name)
+        if not m or _pid_alive(int(m["pid"])) or not e.is_dir(follow_symlinks=False):
+            continue
+        _end_stale_soffice(Path(e.path))
+        shutil.rmtree(e.path, ignore_errors=True)
+        if not os.path.lexists(e.path):
+            removed.append(e.path)
+    removed += _clean_stale_pipes()
+    if output_folder is not None:
+        try:
+            entries = list(os.scandir(output_folder))
+        except OSError:
+            entries = []
+        for e in entries:
+            m = STALE_OUTPUT.match(e.name)
+            if (m and m["host"] == _host() and not _pid_alive(int(m["pid"]))
+                    and e.is_file(follow_symlinks=False)):
+                try:
+                    os.unlink(e.path)
+                    removed.append(e.path)
+                except OSError:
+                    pass
+    return removed
 
 
 def find_soffice() -> str | None:
@@ -183,8 +367,46 @@ def _child_env(python: str | None = None) -> dict:
     return env
 
 
-def run_session(extensions=(), books=(), *, profile=None, timeout: float = 300.0, env: dict | None = None) -> dict:
+_PR_SET_PDEATHSIG = 1
+
+
+@functools.lru_cache(maxsize=None)
+def _libc():
+    """The C library through ctypes (Linux), loaded before any fork; None elsewhere."""
+    if not sys.platform.startswith("linux"):
+        return None
+    try:
+        import ctypes
+
+        return ctypes.CDLL(None, use_errno=True)
+    except (OSError, ImportError):
+        return None
+
+
+def _die_with_parent(sig: int, parent: int):
+    """A preexec function: the child gets ``sig`` when ``parent`` dies (Linux prctl PR_SET_PDEATHSIG)."""
+    libc = _libc()
+
+    def preexec():
+        if libc is not None:
+            libc.prctl(_PR_SET_PDEATHSIG, int(sig), 0, 0, 0)
+        if os.getppid() != parent:  # the parent died before prctl took effect
+            os.kill(os.getpid(), sig)
+
+    return preexec
+
+
+def run_session(extensions=(), books=(), *, profile=None, timeout: float = 300.0, env: dict | None = None,
+                cleanup=()) -> dict:
     """One headless LibreOffice session (see :mod:`.lo_driver` for ``books``); returns the driver's answer.
+
+    The driver runs in its own session (process group), and soffice in
+    another; both end when this process is stopped by SIGINT, SIGTERM or
+    SIGHUP (raised as :class:`Interrupted` / KeyboardInterrupt after the
+    driver has ended soffice and removed the profile), and when it dies (the
+    driver gets SIGTERM through PR_SET_PDEATHSIG on Linux and watches this
+    pid as well, then also removes the folders in ``cleanup``, which must be
+    this engine's own scratch folders).
 
     Raises :class:`LibreOfficeError` when LibreOffice is missing or the session fails.
     """
@@ -193,29 +415,38 @@ def run_session(extensions=(), books=(), *, profile=None, timeout: float = 300.0
         raise LibreOfficeError(reason)
     soffice = find_soffice()
     python = find_uno_python(soffice)
-    with tempfile.TemporaryDirectory(prefix="fuelsys-lo-") as tmp:
-        pidfile = os.path.join(tmp, "soffice.pid")
-        # a fresh profile inside our own temporary directory, so it goes even if the driver is killed
-        profile = str(profile) if profile else os.path.join(tmp, "profile")
-        job = {"soffice": soffice, "profile": profile, "timeout": min(timeout, 120.0),
-               "pidfile": pidfile, "extensions": [str(x) for x in extensions],
-               "books": [{k: (str(v) if isinstance(v, Path) else v) for k, v in b.items()} for b in books]}
-        child_env = _child_env(python)
-        child_env.update(env or {})
-        proc = subprocess.Popen([python, str(_DRIVER)], stdin=subprocess.PIPE, stdout=subprocess.PIPE,
-                                stderr=subprocess.PIPE, env=child_env, start_new_session=True)
+    with stop_signals_raise():
+        tmp = make_scratch("lo")
         try:
-            out, err = proc.communicate(json.dumps(job).encode("utf-8"), timeout=timeout)
-        except subprocess.TimeoutExpired:
-            proc.terminate()  # the driver shuts soffice down on SIGTERM
-            try:
-                proc.communicate(timeout=30)
-            except subprocess.TimeoutExpired:
-                proc.kill()
-                proc.communicate()
-            raise LibreOfficeError(f"the LibreOffice session did not finish within {timeout:g} s")
+            return _run_driver(python, soffice, tmp, extensions, books, profile, timeout, env, cleanup)
         finally:
-            _kill_leftover(pidfile)
+            shutil.rmtree(tmp, ignore_errors=True)
+
+
+def _run_driver(python, soffice, tmp, extensions, books, profile, timeout, env, cleanup) -> dict:
+    pidfile = os.path.join(tmp, "soffice.pid")
+    # a fresh profile inside our own temporary folder, so it goes with it
+    profile = str(profile) if profile else os.path.join(tmp, "profile")
+    job = {"soffice": soffice, "profile": profile, "timeout": min(timeout, 120.0), "workdir": tmp,
+           "pidfile": pidfile, "parent_pid": os.getpid(),
+           "cleanup": [tmp] + [str(c) for c in cleanup if STALE_SCRATCH.match(os.path.basename(str(c)))],
+           "extensions": [str(x) for x in extensions],
+           "books": [{k: (str(v) if isinstance(v, Path) else v) for k, v in b.items()} for b in books]}
+    child_env = _child_env(python)
+    child_env.update(env or {})
+    proc = subprocess.Popen([python, str(_DRIVER)], stdin=subprocess.PIPE, stdout=subprocess.PIPE,
+                            stderr=subprocess.PIPE, env=child_env, start_new_session=True,
+                            preexec_fn=_die_with_parent(signal.SIGTERM, os.getpid()) if os.name == "posix" else None)
+    try:
+        out, err = proc.communicate(json.dumps(job).encode("utf-8"), timeout=timeout)
+    except subprocess.TimeoutExpired:
+        _stop_driver(proc)
+        raise LibreOfficeError(f"the LibreOffice session did not finish within {timeout:g} s")
+    except BaseException:  # KeyboardInterrupt, Interrupted: the driver ends soffice and its files
+        _stop_driver(proc)
+        raise
+    finally:
+        _kill_leftover(pidfile)
     try:
         answer = json.loads(out.decode("utf-8"))
     except ValueError:
@@ -226,18 +457,49 @@ def run_session(extensions=(), books=(), *, profile=None, timeout: float = 300.0
     return answer
 
 
+def _stop_driver(proc) -> None:
+    """SIGTERM to the driver (it ends soffice and removes its files), then its process group killed."""
+    if proc.poll() is None:
+        try:
+            proc.terminate()
+            proc.wait(timeout=15)
+        except subprocess.TimeoutExpired:
+            pass
+        except KeyboardInterrupt:  # a second Ctrl+C: no more waiting
+            pass
+    _kill_group(proc.pid, grace=0.0)
+    try:
+        proc.wait(timeout=5)
+    except subprocess.TimeoutExpired:
+        pass
+
+
+def _kill_group(pgid: int, grace: float = 1.0) -> None:
+    """SIGTERM to a process group, SIGKILL after ``grace`` seconds if it is still there."""
+    try:
+        os.killpg(pgid, signal.SIGTERM)
+    except (ProcessLookupError, PermissionError, OSError):
+        return
+    deadline = time.monotonic() + grace
+    while time.monotonic() < deadline:
+        try:
+            os.killpg(pgid, 0)
+        except (ProcessLookupError, PermissionError, OSError):
+            return
+        time.sleep(0.05)
+    try:
+        os.killpg(pgid, signal.SIGKILL)
+    except (ProcessLookupError, PermissionError, OSError):
+        pass
+
+
 def _kill_leftover(pidfile: str) -> None:
     """Kill soffice's process group if the driver left it running."""
     try:
         pgid = int(Path(pidfile).read_text().strip())
     except (OSError, ValueError):
         return
-    for sig in (signal.SIGTERM, signal.SIGKILL):
-        try:
-            os.killpg(pgid, sig)
-        except (ProcessLookupError, PermissionError):
-            return
-        time.sleep(0.5)
+    _kill_group(pgid)
 
 
 def build_extension(dest_dir) -> Path:
@@ -247,36 +509,111 @@ def build_extension(dest_dir) -> Path:
     return generate.build_oxt(Path(dest_dir))
 
 
+def check_output(dst) -> Path:
+    """The output's real path, or :class:`OutputRefused` saying why it cannot be written there."""
+    dst = Path(os.path.realpath(dst))
+    folder = dst.parent
+    if not folder.is_dir():
+        raise OutputRefused(f"the output folder {folder} does not exist: create it first or give another "
+                            f"--output; nothing written")
+    if dst.is_dir():
+        raise OutputRefused(f"the output {dst} is a folder: give a file name such as {dst / 'out.xlsx'}; "
+                            f"nothing written")
+    if not os.access(folder, os.W_OK | os.X_OK):
+        raise OutputRefused(f"the output folder {folder} is not writable by this user; nothing written")
+    lock = xlsx.open_elsewhere(dst)
+    if lock:
+        raise OutputRefused(f"{dst.name} is open in a spreadsheet program ({os.path.basename(lock)} is beside "
+                            f"it): close it there first, or give another --output; nothing written")
+    return dst
+
+
+def store_output(made, dst) -> None:
+    """Put the book LibreOffice stored at ``made`` in place at ``dst``, atomically.
+
+    Through a temporary file beside ``dst`` (named by :func:`temp_output_name`),
+    created as any new file is, so a new output has the permissions the umask
+    gives; an existing output keeps its mode (and owner and group where this
+    process may set them).  On any failure ``dst`` is as it was and the
+    temporary file is gone.
+    """
+    dst = Path(dst)
+    if not os.path.exists(made) or os.path.getsize(made) == 0:
+        raise LibreOfficeError("LibreOffice wrote no workbook")
+    tmp = dst.parent / temp_output_name(dst)
+    fd = os.open(tmp, os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_CLOEXEC", 0), 0o666)
+    try:
+        with os.fdopen(fd, "wb") as out, open(made, "rb") as src:
+            shutil.copyfileobj(src, out, 1 << 20)
+            out.flush()
+            os.fsync(out.fileno())
+        try:
+            st = os.stat(dst)
+        except FileNotFoundError:
+            st = None
+        if st is not None:
+            os.chmod(tmp, st.st_mode & 0o7777)
+            if hasattr(os, "chown"):
+                try:
+                    os.chown(tmp, st.st_uid, st.st_gid)
+                except PermissionError:
+                    pass
+        os.replace(tmp, dst)
+    except BaseException:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
+        raise
+
+
 def recalc_book(src_path, dst_path, *, timeout: float = 600.0) -> dict:
     """Compute a workbook in headless LibreOffice with the fuelsys extension and store it as .xlsx.
 
     The book is loaded into a fresh profile with the extension (built from the
     catalogue for this call), every formula is recalculated with
-    ``calculateAll()``, and the book is stored to ``dst_path`` with the
-    filter "Calc MS Excel 2007 XML".  ``dst_path`` may equal ``src_path``.
+    ``calculateAll()``, and the book is stored with the filter "Calc MS Excel
+    2007 XML" and put in place at ``dst_path`` by :func:`store_output`.
+    ``dst_path`` may equal ``src_path``.  An output folder that is missing or
+    not writable raises :class:`OutputRefused` before LibreOffice starts.
+    Temporary files that killed runs left behind are removed first
+    (:func:`clean_stale`).  Stopped by SIGINT/SIGTERM/SIGHUP, it raises
+    :class:`Interrupted` (a KeyboardInterrupt) with soffice ended and no file
+    left or written.
 
     Returns a summary: LibreOffice's version, the number of formula cells and
     the number that show an error value or an ``FS error:`` text.
     """
+    dst = check_output(dst_path)
     src = Path(src_path).resolve()
-    dst = Path(dst_path).resolve()
     if not src.is_file():
         raise FileNotFoundError(f"{src} does not exist")
-    with tempfile.TemporaryDirectory(prefix="fuelsys-recalc-") as tmp:
-        oxt = build_extension(tmp)
-        out_tmp = Path(tmp) / ("out" + (dst.suffix or ".xlsx"))
-        answer = run_session([oxt], [{"src": str(src), "dst": str(out_tmp), "read": True}], timeout=timeout)
-        dst.parent.mkdir(parents=True, exist_ok=True)
-        shutil.copyfile(out_tmp, dst)
-    cells = answer["books"][0]["cells"]
+    clean_stale(dst.parent)
+    with stop_signals_raise():
+        tmp = make_scratch("recalc")
+        try:
+            oxt = build_extension(tmp)
+            made = Path(tmp) / ("out" + (dst.suffix or ".xlsx"))
+            answer = run_session([oxt], [{"src": str(src), "dst": str(made), "read": True}], timeout=timeout,
+                                 cleanup=[tmp])
+            store_output(made, dst)
+        finally:
+            shutil.rmtree(tmp, ignore_errors=True)
+    book = answer["books"][0]
+    counts = book.get("counts") or _count(book.get("cells", []))
     return {
         "engine": "libreoffice",
         "libreoffice": answer.get("version", ""),
-        "formulas": len(cells),
-        "errors": sum(1 for c in cells if c["type"] == "error"),
-        "fs_errors": sum(1 for c in cells if c["type"] == "text" and c["value"].startswith("FS error:")),
-        "seconds": answer["books"][0]["calculate_all_s"],
+        "formulas": counts["formulas"],
+        "errors": counts["errors"],
+        "fs_errors": counts["fs_errors"],
+        "seconds": book["calculate_all_s"],
     }
+
+
+def _count(cells) -> dict:
+    return {"formulas": len(cells), "errors": sum(1 for c in cells if c["type"] == "error"),
+            "fs_errors": sum(1 for c in cells if c["type"] == "text" and c["value"].startswith("FS error:"))}
 
 
 def default_profile() -> Path:
