@@ -192,3 +192,37 @@ def test_tube_air_with_gauge_case_pressure_is_an_error():
     out = call("FS_TUBE_AIR", 6, 4, 0.12, 28, 0.7)
     assert out.startswith("FS error: case_bar_abs = 0.12 bar abs looks like a gauge value")
     assert isinstance(call("FS_TUBE_AIR", 6, 4, 1.13325, 28, 0.7), float)
+
+
+# ---------------------------------------------------------------------------
+# issue 16: Python ints beyond the largest float (a cell can hold them in the Python faces)
+
+def _catalogue():
+    from fuelsys.sheet import catalogue
+
+    return catalogue.functions()
+
+
+@pytest.mark.parametrize("name", [n for n, s in _catalogue().items() if s.args])
+def test_whole_numbers_beyond_float_give_an_input_message(name, monkeypatch):
+    monkeypatch.setattr(adapt, "STRICT", True)
+    spec = _catalogue()[name]
+    example = list(spec.example) + [None] * (len(spec.args) - len(spec.example))
+    big = 10 ** 400
+    for i, arg in enumerate(spec.args):
+        for v in (big, -big, [[big], [2.0]]):
+            cells = list(example)
+            cells[i] = v
+            out = adapt.call_spec(spec, *cells)
+            flat = [c for row in out for c in row] if isinstance(out, list) else [out]
+            assert not any(isinstance(c, str) and "internal error" in c for c in flat), (name, arg.name, out)
+            if arg.kind == "number" and not isinstance(v, list):
+                assert isinstance(out, str) and f"{arg.name} must be a finite number" in out and "401 digits" in out
+
+
+def test_every_function_has_a_documented_example_that_computes():
+    for name, spec in _catalogue().items():
+        assert len(spec.example) >= spec.min_args, name
+        out = adapt.call_spec(spec, *spec.example)
+        flat = [c for row in out for c in row] if isinstance(out, list) else [out]
+        assert not any(adapt.is_error(c) for c in flat), (name, out)

@@ -26,6 +26,7 @@ How an element-wise call goes
 from __future__ import annotations
 
 import math
+import sys
 import warnings
 
 import numpy as np
@@ -94,7 +95,10 @@ def _number_or_error(arg: catalogue.Arg, value):
         if is_error(value):
             return math.nan, f"{arg.name} refers to a cell that failed ({value[len(ERROR_PREFIX):]})"
         return math.nan, f"{arg.name} must be a number{unit} (got {_describe(value)})"
-    x = float(value)
+    try:
+        x = float(value)
+    except OverflowError:  # a Python int beyond the largest float
+        return math.nan, _too_large_text(arg, value)
     if not math.isfinite(x):
         return math.nan, f"{arg.name} must be a finite number{unit} (got {x})"
     rng = arg.range_text()
@@ -106,6 +110,20 @@ def _number_or_error(arg: catalogue.Arg, value):
     if arg.unit == "bar abs" and x < catalogue.GAUGE_SUSPECT_BAR_ABS:
         return math.nan, _gauge_suspect_text(arg.name, x)
     return x, None
+
+
+def _too_large_text(arg: catalogue.Arg, value) -> str:
+    unit = "" if arg.unit == "-" else f" in {arg.unit}"
+    digits = len(str(abs(int(value))))
+    return (f"{arg.name} must be a finite number{unit} (got a whole number of {digits} digits, beyond the "
+            f"largest number a spreadsheet cell holds, about 1.8e308)")
+
+
+def _huge_int(v) -> bool:
+    return isinstance(v, int) and not isinstance(v, bool) and abs(v) > _FLOAT_MAX
+
+
+_FLOAT_MAX = sys.float_info.max
 
 
 def _gauge_suspect_text(name: str, x: float) -> str:
@@ -121,7 +139,7 @@ def _text_or_error(arg: catalogue.Arg, value):
         return None, f"{arg.name} is empty; a text is required{allowed}"
     if not isinstance(value, str):
         if isinstance(value, (int, float)) and not isinstance(value, bool):
-            value = f"{value:g}"
+            value = str(value) if _huge_int(value) else f"{value:g}"
         else:
             return None, f"{arg.name} must be a text (got {_describe(value)})"
     if is_error(value):
@@ -177,6 +195,16 @@ def _range_arg(arg: catalogue.Arg, value) -> np.ndarray:
             raise CellError(err)
         out.append(x)
     return np.array(out, dtype=float)
+
+
+def _cells_arg(arg: catalogue.Arg, value) -> list[list]:
+    """A ``cells`` range as rows of cell values; a whole number no float can hold is refused here."""
+    grid = _as_grid(value) if _is_range(value) else [[value]]
+    for row in grid:
+        for v in row:
+            if _huge_int(v):
+                raise CellError(_too_large_text(arg, v))
+    return grid
 
 
 def _fuel_arg(arg: catalogue.Arg, value):
@@ -342,7 +370,7 @@ def _call_table(spec, bound):
         if isinstance(v, _Default):
             kwargs[arg.name] = _fuel_arg(arg, v.value) if arg.kind == "fuel" and v.value is not None else v.value
         elif arg.kind == "cells":
-            kwargs[arg.name] = _as_grid(v) if _is_range(v) else ([[v]] if v is not None else None)
+            kwargs[arg.name] = _cells_arg(arg, v) if v is not None else None
         elif arg.kind == "range":
             kwargs[arg.name] = _range_arg(arg, v)
         elif arg.kind == "fuel":
@@ -373,7 +401,7 @@ def _call_elementwise(spec, bound):
         elif arg.kind == "range":
             fixed[arg.name] = _range_arg(arg, v)
         elif arg.kind == "cells":
-            fixed[arg.name] = _as_grid(v) if _is_range(v) else [[v]]
+            fixed[arg.name] = _cells_arg(arg, v)
         else:
             vals, errs = _elementwise_arg(arg, v)
             ew_names.append(arg.name)

@@ -368,6 +368,8 @@ class Spec:
     impl: Callable = field(repr=False, compare=False)
     volatile: bool = False
     si: bool = False
+    #: cell values of a documented call (inside every correlation's fitted range)
+    example: tuple = ()
 
     @property
     def camel_name(self) -> str:
@@ -391,6 +393,17 @@ class Spec:
         lines += [f"  {a.help_text()}" for a in self.args]
         lines.append(f"  returns{unit}: {self.returns.doc}")
         return "\n".join(lines)
+
+    def example_formula(self) -> str:
+        """The documented example as a formula, ``=FS_DENSITY("kerosene", 20)``."""
+        def cell(v):
+            if isinstance(v, str):
+                return '"' + v.replace('"', '""') + '"'
+            if isinstance(v, (list, tuple)):
+                rows = [r if isinstance(r, (list, tuple)) else [r] for r in v]
+                return "{" + ";".join(",".join(cell(x) for x in r) for r in rows) + "}"
+            return f"{v:g}" if isinstance(v, float) else str(v)
+        return f"={self.name}(" + ", ".join(cell(v) for v in self.example) + ")"
 
     def docstring(self) -> str:
         """The numpydoc docstring of the body, generated from the declaration.
@@ -433,7 +446,7 @@ _LOADED = False
 
 
 def spreadsheet_function(*, name: str, category: str, summary: str, args, returns: Returns,
-                         source: str, volatile: bool = False, si: bool = False):
+                         source: str, volatile: bool = False, si: bool = False, example: tuple = ()):
     """Declare a spreadsheet function (decorator).  See the module docstring.
 
     ``si=True``: the body works in SI; the adapter converts arguments and the
@@ -468,7 +481,7 @@ def spreadsheet_function(*, name: str, category: str, summary: str, args, return
                 a.conversion  # noqa: B018 -- raises for a unit missing from UNITS
             returns.conversion  # noqa: B018
         spec = Spec(name=name, category=category, summary=summary.rstrip("."), args=tuple(args),
-                    returns=returns, source=source, impl=fn, volatile=volatile, si=si)
+                    returns=returns, source=source, impl=fn, volatile=volatile, si=si, example=tuple(example))
         _REGISTRY[name] = spec
         fn.spec = spec
         if si:

@@ -42,7 +42,8 @@ def render_markdown() -> str:
         for a in spec.args:
             default = "required" if a.required else ("(none)" if a.default is None else f"`{a.default!r}`")
             lines.append(f"| `{a.name}` | {_cell(a.unit)} | {_cell(a.doc)} | {_cell(a.range_text())} | {default} |")
-        lines += ["", f"Returns ({spec.returns.kind}){unit}: {_cell(spec.returns.doc)}.", "",
+        example = [f"Example: `{spec.example_formula()}`", ""] if spec.example or not spec.args else []
+        lines += ["", f"Returns ({spec.returns.kind}){unit}: {_cell(spec.returns.doc)}.", "", *example,
                   f"Method: {_cell(spec.source)}.", ""]
     return "\n".join(lines)
 

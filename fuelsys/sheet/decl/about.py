@@ -12,6 +12,7 @@ from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
     returns=Returns("text", "-", 'the text "fuelsys X.Y.Z"'),
     source="fuelsys package metadata",
     si=True,
+    example=(),
 )
 def fs_version():
     import fuelsys
@@ -27,6 +28,7 @@ def fs_version():
     returns=Returns("text", "-", "the function's summary and arguments with units"),
     source="the fuelsys catalogue",
     si=True,
+    example=("FS_DENSITY",),
 )
 def fs_help(name):
     from fuelsys.sheet import catalogue

@@ -76,6 +76,7 @@ def _names(cells, n):
            "Gas Turbine Combustion 3rd ed. 2010, ch. 4); default Cd: Kaddah (1964) plain holes at "
            "negligible annulus velocity",
     si=True,
+    example=([[6], [8], [12]], [[2.0], [3.0], [4.0]]),
 )
 def fs_zone_air(hole_counts, d, cds, zone_names):
     from fuelsys import combustor
@@ -106,6 +107,7 @@ def fs_zone_air(hole_counts, d, cds, zone_names):
     source="phi = (F/A)/(F/A)stoich (Turns, An Introduction to Combustion 3rd ed. 2012, eq. 2.32); "
            "stoichiometric ratio from the fuel's composition",
     si=True,
+    example=(200, 250, 0.3, "kerosene"),
 )
 def fs_zone_phi(fuel_flow, air, zone_fraction, fuel):
     from fuelsys import combustor
@@ -133,6 +135,7 @@ _PHI_LO, _PHI_HI = VALIDITY["phi"][:2]
            "(Gordon & McBride, NASA RP-1311, 1994) with NASA Glenn polynomials (McBride, Zehe & Gordon, "
            "NASA/TP-2002-211556); checked against Cantera with GRI-Mech 3.0 thermodynamics",
     si=True,
+    example=("kerosene", 0.8, 150, 2.5),
 )
 def fs_flame_temp(fuel, phi, T_in, p, method):
     from fuelsys import equilibrium
@@ -158,6 +161,7 @@ def fs_flame_temp(fuel, phi, T_in, p, method):
            "from NASA Glenn polynomials (McBride, Zehe & Gordon 2002; Saravanamuttoo et al., Gas Turbine "
            "Theory 6th ed. §2.3)",
     si=True,
+    example=(1800, 100, 150, 150, 0.04),
 )
 def fs_mix_temp(T_hot, hot, T_cold, cold, hot_far, fuel):
     from fuelsys import combustor

@@ -17,6 +17,9 @@ _FUEL = Arg("fuel", "fuel", "-", "built-in fuel name or a fuel table range", def
 _TEMP = Arg("temp_c", "number", "°C", "fuel temperature", default=20.0, gt=-273.15)
 _OIL = Arg("oil_pct", "number", "% vol", "turbine oil mixed into the fuel", default=0.0, low=0, high=20,
            group=True)
+#: a pump-fit range for the examples (labels over values, as FS_PUMP_FIT gives them; round numbers)
+_COEF_EXAMPLE = [["flow_per_volt_ml_min_v", "v0_v", "dp_v_per_bar", "winding_ohm", "friction_a", "slip_mm3"],
+                 [24.0, 0.5, 0.3, 1.0, 0.5, 2e-6]]
 _COEF = Arg("coefficients", "cells", "-", "the range FS_PUMP_FIT returned (labels and values)")
 #: combustion efficiency default: small vaporiser engines run a few per cent short of complete
 #: combustion (common practice, no source)
@@ -41,6 +44,7 @@ def _liquid(fuel, what="fuel"):
            "enthalpy rise ∝ N² (Saravanamuttoo et al., Gas Turbine Theory 6th ed. §4.2); air properties "
            "NASA Glenn polynomials (McBride, Zehe & Gordon 2002); inlet at 15 °C",
     si=True,
+    example=(80000, 120000, 2.5),
 )
 def fs_case_pressure(speed, speed_max, pr_max, p_ambient):
     from fuelsys import engine
@@ -62,6 +66,7 @@ def fs_case_pressure(speed, speed_max, pr_max, p_ambient):
            "theoretical/actual fuel-air ratio (Saravanamuttoo et al., Gas Turbine Theory 6th ed. §2.3); "
            "air and lean products from NASA Glenn polynomials (McBride, Zehe & Gordon 2002)",
     si=True,
+    example=(250, 150, 850, "kerosene"),
 )
 def fs_fuel_demand(air, T3, T4, fuel, efficiency):
     from fuelsys import engine
@@ -91,6 +96,7 @@ def fs_fuel_demand(air, T3, T4, fuel, efficiency):
     source="sum of series losses plus hydrostatic head ρ g n h (White, Fluid Mechanics 7th ed. §6.9); "
            "fuel density from the fuel model",
     si=True,
+    example=(200, 1.5, 3, 0.4),
 )
 def fs_pump_need(mdot, p_case, needle_dp, line_dp, head, g_load, margin_pct, fuel, T, oil_pct):
     fuel = fuel.with_oil(oil_pct)
@@ -124,6 +130,7 @@ def fs_pump_need(mdot, p_case, needle_dp, line_dp, head, g_load, margin_pct, fue
            "DC motor V = RI + kω, T = kI (Fitzgerald, Kingsley & Umans 2003 §7.2); least squares "
            "(scipy.optimize.least_squares), standard errors from the Jacobian (Bates & Watts 1988)",
     si=True,
+    example=([[118.2], [247.6], [375.9], [263.4], [104.9], [228.5], [393.4], [365.6]], [[1.0], [3.0], [5.0], [1.0], [2.0], [4.0], [2.0], [5.0]], [[3.0], [6.0], [9.0], [6.0], [3.0], [6.0], [9.0], [9.0]], "kerosene"),
 )
 def fs_pump_fit(mdot, p, volts, fuel, T, winding_ohm, kv_rpm_per_v, oil_pct):
     fuel = fuel.with_oil(oil_pct)
@@ -158,6 +165,7 @@ def _pump(coefficients):
     returns=Returns("number", "V", "motor terminal voltage"),
     source="the fitted gear-pump and DC-motor model (Wilson 1949; Fitzgerald et al. 2003 §7.2)",
     si=True,
+    example=(_COEF_EXAMPLE, 200, 3),
 )
 def fs_pump_volts(coefficients, mdot, p, fuel, T, oil_pct):
     fuel = fuel.with_oil(oil_pct)
@@ -179,6 +187,7 @@ def fs_pump_volts(coefficients, mdot, p, fuel, T, oil_pct):
     returns=Returns("number", "g/min", "fuel flow delivered"),
     source="the fitted gear-pump and DC-motor model (Wilson 1949; Fitzgerald et al. 2003 §7.2)",
     si=True,
+    example=(_COEF_EXAMPLE, 6, 3),
 )
 def fs_pump_flow(coefficients, volts, dp, fuel, T, oil_pct):
     fuel = fuel.with_oil(oil_pct)

@@ -61,6 +61,7 @@ def _props(fuel, T, oil_pct):
                     decimals=9),
     source=_ISO_SOURCE,
     si=True,
+    example=(25,),
 )
 def fs_needle_bore(gauge, wall):
     from fuelsys.flow.tubing import needle_bore
@@ -76,6 +77,7 @@ def fs_needle_bore(gauge, wall):
     returns=Returns("number", "mm", "outside diameter", decimals=9),
     source=_ISO_SOURCE,
     si=True,
+    example=(25,),
 )
 def fs_needle_od(gauge, limit):
     from fuelsys.flow.tubing import needle_od
@@ -98,6 +100,7 @@ def _flow(D, L, dp, fuel, T, oil_pct, entrance):
     returns=Returns("number", "g/min", "mass flow through the needle"),
     source=_NEEDLE_SOURCE,
     si=True,
+    example=(0.3, 25, 2, "kerosene", 20),
 )
 def fs_needle_flow(D, L, dp, fuel, T, oil_pct, entrance):
     return _flow(D, L, dp, fuel, T, oil_pct, entrance)[0]
@@ -111,6 +114,7 @@ def fs_needle_flow(D, L, dp, fuel, T, oil_pct, entrance):
     returns=Returns("number", "mL/min", "volume flow through the needle, at the fuel's temperature"),
     source=_NEEDLE_SOURCE,
     si=True,
+    example=(0.3, 25, 2, "kerosene", 20),
 )
 def fs_needle_flow_ml(D, L, dp, fuel, T, oil_pct, entrance):
     m, rho = _flow(D, L, dp, fuel, T, oil_pct, entrance)
@@ -132,6 +136,7 @@ def _dp(D, L, mdot, fuel, T, oil_pct, entrance):
     returns=Returns("number", "bar", "pressure drop from the manifold to the space the jet enters"),
     source=_NEEDLE_SOURCE,
     si=True,
+    example=(0.3, 25, 10, "kerosene", 20),
 )
 def fs_needle_dp(D, L, mdot, fuel, T, oil_pct, entrance):
     return _dp(D, L, lambda rho: mdot, fuel, T, oil_pct, entrance)
@@ -145,6 +150,7 @@ def fs_needle_dp(D, L, mdot, fuel, T, oil_pct, entrance):
     returns=Returns("number", "bar", "pressure drop from the manifold to the space the jet enters"),
     source=_NEEDLE_SOURCE,
     si=True,
+    example=(0.3, 25, 12, "kerosene", 20),
 )
 def fs_needle_dp_ml(D, L, Q, fuel, T, oil_pct, entrance):
     return _dp(D, L, lambda rho: rho * Q, fuel, T, oil_pct, entrance)
@@ -157,6 +163,7 @@ def fs_needle_dp_ml(D, L, Q, fuel, T, oil_pct, entrance):
     returns=Returns("number", "-", "Reynolds number 4 m / (pi D mu); laminar below about 2000"),
     source="definition (Reynolds 1883); viscosity from the fuel model",
     si=True,
+    example=(0.3, 10, "kerosene", 20),
 )
 def fs_needle_reynolds(D, mdot, fuel, T, oil_pct):
     from fuelsys.flow.needle import needle_reynolds
@@ -172,6 +179,7 @@ def fs_needle_reynolds(D, mdot, fuel, T, oil_pct):
     returns=Returns("number", "m/s", "mean velocity 4 m / (rho pi D^2)"),
     source="continuity; density from the fuel model",
     si=True,
+    example=(0.3, 10, "kerosene", 20),
 )
 def fs_needle_velocity(D, mdot, fuel, T, oil_pct):
     from fuelsys.flow.needle import needle_velocity
@@ -193,6 +201,7 @@ def fs_needle_velocity(D, mdot, fuel, T, oil_pct):
     returns=Returns("number", "mm", "the bore with which the needle model passes the measured flow"),
     source=f"inverse of the needle model on bore (Chandrupatla 1997 root search); {_NEEDLE_SOURCE}",
     si=True,
+    example=(10, 60, 1, 25, "water", 20),
 )
 def fs_bore_from_test(volume, time, dp, L, fluid, T, entrance):
     from fuelsys.flow.bench import bench_mass_flow, effective_bore
@@ -210,6 +219,7 @@ def fs_bore_from_test(volume, time, dp, L, fluid, T, entrance):
     returns=Returns("table", "%", "one row per needle: deviation from the median [%] and ok / ODD"),
     source="deviation from the set's median (a robust centre: Hampel et al. 1986)",
     si=True,
+    example=([[10.0], [10.2], [11.5], [9.9]],),
 )
 def fs_odd_needles(flows, threshold):
     from fuelsys.flow.bench import odd_needles
@@ -232,6 +242,7 @@ def fs_odd_needles(flows, threshold):
     source=("node and loop balances of the ring network solved by Newton's method (Jeppson 1976); ring "
             f"friction Churchill (1977); needles: {_NEEDLE_SOURCE}"),
     si=True,
+    example=([[0.3], [0.31], [0.3], [0.29]], 25, 3, 1, 2, 60, "kerosene", 20),
 )
 def fs_manifold_split(bores, lengths, p_supply, p_case, ring_bore, ring_dia, fuel, T, oil_pct, entrance):
     from fuelsys.flow.manifold import ring_manifold
@@ -281,6 +292,7 @@ def _default_bore_tol(gauge: int) -> float:
             "bore_tol above the ISO 9626 minimum; default ID tolerance of hypodermic tubing from the needle "
             f"gauge comparison chart (Wikipedia); needle model: {_NEEDLE_SOURCE}"),
     si=True,
+    example=(25, "normal", 8, 25, 2, "kerosene", 20),
 )
 def fs_tolerance_spread(gauge, wall, needles, L, dp, fuel, T, bore_tol, length_tol, samples, seed, oil_pct, D):
     from fuelsys.flow.tolerance import tolerance_study
@@ -333,6 +345,7 @@ def fs_tolerance_spread(gauge, wall, needles, L, dp, fuel, T, bore_tol, length_t
     source="dp = (f L/D + K) rho u^2/2, f from Churchill (1977) all regimes, drawn-tubing roughness 1.5 um "
            "(Moody 1944); loss coefficients as in Crane TP-410 (2009)",
     si=True,
+    example=(2.5, 0.8, 100, "kerosene", 20, 8),
 )
 def fs_line_dp(D, L, mdot, fuel, T, k_total, oil_pct):
     from fuelsys.flow.lines import line_dp

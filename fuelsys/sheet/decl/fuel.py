@@ -41,6 +41,7 @@ def _named(name, fn, *args):
     source=f"{_PETROLEUM}: Rackett equation with Spencer & Danner (1972) Z_RA, calibrated to the "
            f"density at 15 °C; oil by volume-additive mixing; {_GASES}",
     si=True,
+    example=("kerosene", 20),
 )
 def fs_density(fuel, T, oil_pct):
     f = fuel.with_oil(oil_pct)
@@ -55,6 +56,7 @@ def fs_density(fuel, T, oil_pct):
     source="Walther equation (ASTM D341) through the fuel's two viscosity points; oil by the Refutas "
            f"blending number (Baird 1989); {_GASES}",
     si=True,
+    example=("kerosene", 20),
 )
 def fs_viscosity(fuel, T, oil_pct):
     f = fuel.with_oil(oil_pct)
@@ -69,6 +71,7 @@ def fs_viscosity(fuel, T, oil_pct):
     source=f"{_PETROLEUM}: Kesler & Lee (1976) liquid heat capacity; oil by Cragoe (1929), mass average; "
            f"{_GASES}",
     si=True,
+    example=("kerosene", 20),
 )
 def fs_specific_heat(fuel, T, oil_pct):
     f = fuel.with_oil(oil_pct)
@@ -82,6 +85,7 @@ def fs_specific_heat(fuel, T, oil_pct):
     returns=Returns("number", "W/(m·K)", "thermal conductivity of the liquid"),
     source=f"{_PETROLEUM}: Riazi & Faghri (1985) at the mean average boiling point; {_GASES}",
     si=True,
+    example=("kerosene", 20),
 )
 def fs_conductivity(fuel, T):
     return fuel.conductivity(fuel.check_temperature(T, "temp_c"))
@@ -94,6 +98,7 @@ def fs_conductivity(fuel, T):
     returns=Returns("number", "mN/m", "surface tension"),
     source=f"{_PETROLEUM}: API Technical Data Book procedure 10A3.2; {_GASES}",
     si=True,
+    example=("kerosene", 20),
 )
 def fs_surface_tension(fuel, T):
     return fuel.surface_tension(fuel.check_temperature(T, "temp_c"))
@@ -107,6 +112,7 @@ def fs_surface_tension(fuel, T):
     source=f"{_PETROLEUM}: Lee & Kesler (1975) vapour pressure of each pseudo-component, "
            f"Raoult's law; {_GASES}",
     si=True,
+    example=("kerosene", 150),
 )
 def fs_vapour_pressure(fuel, T):
     return fuel.vapour_pressure(fuel.check_temperature(T, "temp_c"))
@@ -120,6 +126,7 @@ def fs_vapour_pressure(fuel, T):
     source=f"{_PETROLEUM}: Riedel (1954) at each pseudo-component's boiling point, Watson (1943) "
            f"scaling; {_GASES}",
     si=True,
+    example=("kerosene", 150),
 )
 def fs_latent_heat(fuel, T):
     return fuel.latent_heat(fuel.check_temperature(T, "temp_c"))
@@ -132,6 +139,7 @@ def fs_latent_heat(fuel, T):
     returns=Returns("number", "°C", "bubble-point temperature (no air)"),
     source=f"{_PETROLEUM}: Raoult's law with Lee & Kesler (1975) vapour pressures; {_GASES}",
     si=True,
+    example=("kerosene", 1.01325),
 )
 def fs_bubble_point(fuel, P):
     return _named("p_bar_abs", fuel.bubble_point, P)
@@ -147,6 +155,7 @@ def fs_bubble_point(fuel, P):
     source=f"{_PETROLEUM}: Raoult's and Dalton's laws with Lee & Kesler (1975) vapour pressures, "
            f"air as an inert carrier; {_GASES}",
     si=True,
+    example=("kerosene", 3, 0.05),
 )
 def fs_dew_point(fuel, P, far):
     if far is None:
@@ -163,6 +172,7 @@ def fs_dew_point(fuel, P, far):
     source=f"{_PETROLEUM}: Raoult's law with air as an inert carrier, Rachford & Rice (1952) flash; "
            f"{_GASES}",
     si=True,
+    example=("kerosene", 150, 3, 0.05),
 )
 def fs_vapour_fraction(fuel, T, P, far):
     try:
@@ -182,6 +192,7 @@ def fs_vapour_fraction(fuel, T, P, far):
     source="the fuel's own data; otherwise Cragoe (1929) from its density (liquids) or heats of "
            "formation (gases)",
     si=True,
+    example=("kerosene",),
 )
 def fs_heating_value(fuel):
     return float(fuel.lhv)
@@ -195,6 +206,7 @@ def fs_heating_value(fuel):
     source="combustion stoichiometry from the fuel's hydrogen content (given, or Riazi & Daubert 1987 "
            "C/H ratio) or formula; dry air of Lemmon et al. (2000)",
     si=True,
+    example=("kerosene",),
 )
 def fs_stoich_far(fuel):
     return float(fuel.stoich_far)
@@ -207,6 +219,7 @@ def fs_stoich_far(fuel):
     returns=Returns("table", "-", "two columns: label (with its unit) and value"),
     source="the fuel's data and characterisation (see FS_DENSITY and the other fuel functions)",
     si=True,
+    example=("kerosene",),
 )
 def fs_fuel_info(fuel):
     rows = []

@@ -40,6 +40,7 @@ def _get(gas):
            "orifice; otherwise ideal gas with real γ and Z and Fanno friction along the bore (Anderson, "
            "Modern Compressible Flow 3rd ed. §3.9, §5.4); cd 0.8 after Lichtarowicz et al. (1965)",
     si=True,
+    example=(0.35, 12, 2.5, 1.4, "propane", 20),
 )
 def fs_gas_jet_flow(d, L, up, down, gas, T, cd):
     from fuelsys import gas_start
@@ -79,6 +80,7 @@ def fs_gas_jet_flow(d, L, up, down, gas, T, cd):
            "(Churchill & Chu 1975), solved with solve_ivp; CoolProp saturation properties; shell specific "
            "heat from Incropera et al. 6th ed. Table A.1",
     si=True,
+    example=("propane", 180, 110, 3, 5, 15),
 )
 def fs_canister_chill(gas, m_liquid, m_shell, mdot, duration, T_air, shell, p_need, rows):
     from fuelsys import gas_start

@@ -24,6 +24,7 @@ _GAS_DOC = ("propane, butane, isobutane, or a blend lpg-XX-YY (propane/n-butane,
            "virial vapour phase (Smith, Van Ness & Abbott 2005, §14.1); liquid left after "
            "drawing gas by Rayleigh distillation (Rayleigh 1902)",
     si=True,
+    example=("propane", 20),
 )
 def fs_canister_pressure(gas, T, drawn):
     from fuelsys.errors import FuelsysInputError

@@ -131,6 +131,7 @@ def _run(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c
     source="isentropic (compressible) orifice flow times a discharge coefficient, case to liner "
            "(Anderson, Modern Compressible Flow 3rd ed. ch. 5; Lefebvre & Ballal, Gas Turbine Combustion "
            "3rd ed. ch. 4; cd 0.6 for a plain inlet, from memory)",
+    example=(6, 4, 2.2, 150),
 )
 def fs_tube_air(tube_bore_mm, liner_dp_pct, case_bar_abs, t3_c, cd):
     """Air into one tube [g/s].
@@ -171,6 +172,7 @@ def fs_tube_air(tube_bore_mm, liner_dp_pct, case_bar_abs, t3_c, cd):
               choices=tuple(_ITEMS)), _SHAPE],
     returns=Returns("table", "-", "two columns: item name (unit in the name) and value; or the one item asked for"),
     source=_SOURCE,
+    example=(6, 150, 20, 2, 2.2, 150, 600, "kerosene"),
 )
 def fs_vaporiser(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel, oil_pct,
                  item, shape):
@@ -226,6 +228,7 @@ def fs_vaporiser(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_a
     returns=Returns("table", "-", "header row, then rows of position mm (along the heated legs), gas °C, "
                                   "wall °C, vaporised %, velocity m/s"),
     source=_SOURCE,
+    example=(6, 150, 20, 2, 2.2, 150, 600, "kerosene"),
 )
 def fs_vaporiser_profile(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel,
                          oil_pct, points, shape):
@@ -286,6 +289,7 @@ def fs_vaporiser_profile(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, ca
     returns=Returns("number", "ms", "residence time of the gas over the length"),
     source="plug flow of an ideal gas (air plus kerosene vapour, molar mass of the built-in kerosene), "
            "temperature and vaporised fuel linear along the tube; 8-point Gauss-Legendre quadrature",
+    example=(6, 150, 2, 20, 2.2, 150),
 )
 def fs_residence_time(tube_bore_mm, heated_length_mm, air_g_s, fuel_g_min, case_bar_abs, t3_c, exit_c):
     """Residence time [ms].
