@@ -436,7 +436,8 @@ def test_tube_air_flow_bad_input():
 
 def test_docstrings_name_units_and_sources():
     """Every public function of fuelsys.vaporiser and fuelsys.heat has References and a unit on each parameter
-    (STYLE.md "Do" 1)."""
+    (STYLE.md "Do" 1); the keyword options of vaporiser() are each documented under Other Parameters."""
+    import dataclasses
     import inspect
     import re
 
@@ -446,16 +447,36 @@ def test_docstrings_name_units_and_sources():
                 continue
             doc = inspect.getdoc(fn) or ""
             assert "References" in doc and "Examples" in doc, f"{mod.__name__}.{name}"
-            params = list(inspect.signature(fn).parameters)
+            params = [p.name if p.kind != p.VAR_KEYWORD else "**" + p.name
+                      for p in inspect.signature(fn).parameters.values()]
             if not params:
                 continue
-            section = doc.split("Parameters\n----------\n", 1)
-            assert len(section) == 2, f"{mod.__name__}.{name}: no Parameters section"
-            body = re.split(r"\n(?:Returns|Raises|Notes|References|Examples)\n-+\n", section[1])[0]
-            entries = re.split(r"\n(?=\w+ : )", body.strip())
-            assert len(entries) == len(params), f"{mod.__name__}.{name}: {len(entries)} entries for {params}"
-            for entry in entries:
-                assert re.search(r"\[[^\]]+\]\s*$", entry.strip()), f"{mod.__name__}.{name}: no unit in {entry!r}"
+            for title, names in (("Parameters", params), ("Other Parameters", _option_names(fn))):
+                if not names:
+                    continue
+                section = doc.split(f"\n{title}\n{'-' * len(title)}\n", 1)
+                assert len(section) == 2, f"{mod.__name__}.{name}: no {title} section"
+                body = re.split(r"\n(?:Other Parameters|Returns|Raises|Notes|References|Examples)\n-+\n",
+                                section[1])[0]
+                entries = re.split(r"\n(?=(?:\*\*)?\w+ *(?::|\n))", body.strip())
+                assert [e.split(":")[0].split("\n")[0].strip() for e in entries] == names, f"{mod.__name__}.{name}"
+                for entry in entries:
+                    assert re.search(r"\[[^\]]+\]\s*$", entry.strip()), f"{mod.__name__}.{name}: no unit in {entry!r}"
+    assert dataclasses.is_dataclass(vap.FuelEntry)
+
+
+def _option_names(fn):
+    """Keyword options of vaporiser() (the fields of its option groups), in the docstring's order."""
+    import dataclasses
+
+    if fn is not vap.vaporiser:
+        return []
+    names = [f.name for cls in vap.OPTION_GROUPS.values() for f in dataclasses.fields(cls)]
+    doc_order = ["t_fuel_in", "droplet_diameter", "needle_bore", "needle_od", "n_steps", "laminar", "inner_htc",
+                 "flame_speed_method", "coking_limit", "ambient_pressure", "check_steps", "n_table", "shape",
+                 "return_length", "return_wall", "bend_radius"]
+    assert sorted(names) == sorted(doc_order)
+    return doc_order
 
 
 def test_wall_descriptions_refuse_bad_input():
@@ -521,3 +542,43 @@ def test_crane_return_bend_rule():
         vap.vaporiser(BORE, LENGTH, 0.5e-3, 3e-3, P3, T3, 800.0, get_fuel("kerosene"), shape="bent")
     with pytest.raises(FuelsysInputError, match="belong to shape='return'"):
         vap.vaporiser(BORE, LENGTH, 0.5e-3, 3e-3, P3, T3, 800.0, get_fuel("kerosene"), return_length=0.1)
+
+
+# -- the package's shape (issue 18: a room per job) -----------------------------------------------------
+
+def test_package_files_and_functions_stay_small():
+    """No file of the vaporiser package over 1,000 lines, no function over 120 lines or 10 parameters."""
+    import ast
+    import pathlib
+
+    root = pathlib.Path(vap.__file__).parent
+    for path in sorted(root.glob("*.py")):
+        text = path.read_text()
+        assert text.count("\n") <= 1000, path.name
+        for node in ast.walk(ast.parse(text)):
+            if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef)):
+                a = node.args
+                n_params = len(a.posonlyargs) + len(a.args) + len(a.kwonlyargs) + bool(a.vararg) + bool(a.kwarg)
+                assert node.end_lineno - node.lineno + 1 <= 120, f"{path.name}:{node.name}"
+                assert n_params <= 10, f"{path.name}:{node.name} has {n_params} parameters"
+
+
+def test_option_groups_and_loose_keywords_agree(kero):
+    args = (BORE, LENGTH, 0.5e-3, 3e-3, 3e5, 470.0, 800.0, kero)
+    loose = vap.vaporiser(*args, t_fuel_in=290.0, n_steps=20, shape="return", bend_radius=15e-3)
+    grouped = vap.vaporiser(*args, entry=vap.FuelEntry(t_fuel_in=290.0), march=vap.MarchOptions(n_steps=20),
+                            tube=vap.TubeShape(shape="return", bend_radius=15e-3))
+    assert grouped.exit_temperature == loose.exit_temperature and grouped.verdict == loose.verdict
+    with pytest.raises(TypeError, match="unexpected keyword argument 'n_step'"):
+        vap.vaporiser(*args, n_step=20)
+    with pytest.raises(TypeError, match="not both"):
+        vap.vaporiser(*args, march=vap.MarchOptions(), n_steps=20)
+    with pytest.raises(FuelsysInputError, match="entry must be a FuelEntry"):
+        vap.vaporiser(*args, entry=290.0)
+
+
+def test_bend_losses_live_with_the_fittings():
+    from fuelsys.flow import fittings
+
+    assert vap.crane_return_bend_k is fittings.crane_return_bend_k
+    assert fittings.crane_return_bend_k(2.0, 0.02) == vap.crane_return_bend_k(2.0, 0.02)

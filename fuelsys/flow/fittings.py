@@ -43,13 +43,18 @@ References
    coefficients.
 .. [2] I. E. Idelchik, "Handbook of Hydraulic Resistance", 3rd ed.
    (Begell House, 1996), diagram 3-1 (entrance of a straight tube).
+
+Bends: :func:`crane_return_bend_k` gives the loss of a 180° return bend
+(the vaporiser's return leg) by Crane's rule for bends of n quarter turns,
+with the 90° bend's K/f_T read from Crane's table (:data:`CRANE_BEND_K_OVER_FT`).
 """
 
 from __future__ import annotations
 
 import numpy as np
 
-from fuelsys.errors import FuelsysInputError
+from fuelsys.arrays import as_float as _as_float
+from fuelsys.errors import FuelsysInputError, warn_validity
 
 #: entrance loss coefficients by geometry: key -> (K, source)
 ENTRANCE_K = {
@@ -153,3 +158,53 @@ def entrance_k(entrance=DEFAULT_ENTRANCE):
         raise FuelsysInputError(f"entrance loss coefficient must be within 0..{ENTRANCE_K_MAX:g} "
                                 f"(got {k[~ok].flat[0]:g}); put other losses in the line's k_total")
     return float(k) if k.ndim == 0 else k
+
+
+# -- bends ------------------------------------------------------------------------------------
+
+#: Crane TP-410 (2009) A-29: loss coefficient of a 90° bend over the fully turbulent friction factor,
+#: against the bend radius over the bore (from memory)
+CRANE_BEND_R_OVER_D = (1.0, 1.5, 2.0, 3.0, 4.0, 6.0, 8.0, 10.0, 12.0, 14.0, 16.0, 20.0)
+CRANE_BEND_K_OVER_FT = (20.0, 14.0, 12.0, 12.0, 14.0, 17.0, 24.0, 30.0, 34.0, 38.0, 42.0, 50.0)
+
+
+def crane_return_bend_k(r_over_d, f_t, check=True):
+    """Loss coefficient of a 180° return bend by Crane's rule for bends of n quarter turns.
+
+    ``K_B = (n - 1)(0.25 pi f_T r/d + 0.5 K_1) + K_1`` with n = 2 and
+    ``K_1 = (K/f_T)(r/d) f_T`` the 90° bend of the same radius (Crane's
+    table, interpolated).
+
+    Parameters
+    ----------
+    r_over_d : array_like
+        Bend radius (to the tube axis) over the tube bore, 1..20 [-]
+    f_t : array_like
+        Darcy friction factor standing for Crane's fully turbulent f_T [-]
+    check : bool
+        Issue a ValidityWarning outside the table's radii [-]
+
+    Returns
+    -------
+    float or ndarray
+        Loss coefficient on the velocity head in the tube [-]
+
+    References
+    ----------
+    .. [1] Crane Co., "Flow of Fluids Through Valves, Fittings, and Pipe",
+       Technical Paper 410, 2009, page A-29 (pipe bends; n·90° bends)
+       (values from memory).
+
+    Examples
+    --------
+    >>> round(crane_return_bend_k(2.0, 0.02), 4)
+    0.3914
+    """
+    rd = np.asarray(r_over_d, dtype=float)
+    ft = np.asarray(f_t, dtype=float)
+    if np.any(~np.isfinite(rd)) or np.any(rd <= 0):
+        raise FuelsysInputError(f"bend radius over bore must be > 0 (got {np.ravel(rd)[0]:g})")
+    if check:
+        warn_validity("Crane bend table", "r/d", rd, CRANE_BEND_R_OVER_D[0], CRANE_BEND_R_OVER_D[-1], "-")
+    k1 = np.interp(rd, CRANE_BEND_R_OVER_D, CRANE_BEND_K_OVER_FT) * ft
+    return _as_float((2 - 1) * (0.25 * np.pi * ft * rd + 0.5 * k1) + k1)
