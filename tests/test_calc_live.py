@@ -65,6 +65,9 @@ def _test_book(path: Path) -> Path:
     ws["I1"] = ArrayFormula("I1:J2", '=FS_DENSITY("kerosene",D1:D2)')  # a column broadcast over 2 columns
     lo = wb.create_sheet("lo_rules")  # LibreOffice's own rules, not compared with the built-in engine
     lo["A1"] = "=FS_HELP(B1)"  # B1 stays empty
+    lo["A2"] = "=1/0"  # an error value, for the range-level counts
+    lo["A3"] = '=NA()'
+    lo["A4"] = '=FS_DENSITY("kerosene",-300)'  # an FS error text
     wb.save(path)
     return path
 
@@ -97,7 +100,8 @@ def calc(tmp_path_factory):
         assert _cli("libreoffice", "install", "--profile", str(profile)) == 0
         # 2. the test book in that profile: load, calculateAll(), read every formula cell, store as .xlsx
         src = _test_book(tmp / "test.xlsx")
-        answer = runner.run_session([], [{"src": str(src), "dst": str(tmp / "test-lo.xlsx"), "read": True}],
+        answer = runner.run_session([], [{"src": str(src), "dst": str(tmp / "test-lo.xlsx"), "read": True,
+                                          "count": True}],
                                     profile=profile)
         # 3. the starter workbook through recalc_book (what `fuelsys recalc --engine libreoffice` runs)
         starter = None
@@ -142,6 +146,15 @@ def _compare_with_engine(book, skip_sheets=()):
 def test_every_formula_of_the_test_book_matches_the_engine(calc):
     n = _compare_with_engine(calc["test"], skip_sheets=("lo_rules",))
     assert n == 29  # 14 single-cell formulas and 5 + 6 + 4 cells of array formulas
+
+def test_range_level_counts_equal_the_cell_by_cell_reading(calc):
+    # the same session read every formula cell one by one and counted them with the sheet's range queries
+    res = calc["answer"]["books"][0]
+    by_cell = runner._count(res["cells"])
+    assert res["counts"] == by_cell
+    # 29 on the fs sheet, 4 on lo_rules; #DIV/0! and #N/A; fs!A4, F3, F4, F5, E3, E4, E5, lo_rules!A1 and A4
+    assert by_cell == {"formulas": 33, "errors": 2, "fs_errors": 9}
+
 
 def test_the_install_command_put_the_extension_into_the_profile(calc):
     cache = calc["profile"] / "user" / "uno_packages" / "cache" / "uno_packages"

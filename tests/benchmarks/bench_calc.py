@@ -15,12 +15,23 @@ The same 10,000 calls through :func:`fuelsys.sheet.adapt.call_spec` in this
 Python split the cost between the adapter and the UNO bridge.  Loading the
 book (which recomputes array formulas, and so imports numpy, scipy and
 CoolProp into LibreOffice's Python) and the first ``calculateAll()`` are
-reported on their own.  Skipped, with the reason printed, where LibreOffice is
-not usable.
+reported on their own.
+
+Then the two engines of ``fuelsys recalc`` on the same book of 10,000
+formula cells (5,000 FS_DENSITY on distinct temperatures and 5,000 built-ins
+on their results): :func:`fuelsys.sheet.evaluate.recalc_workbook` (the
+baseline) against :func:`fuelsys.sheet.calc_addin.runner.recalc_book`, start-up
+of LibreOffice and the extension's build included, as a user waits for them;
+and, inside one LibreOffice session on that book, counting formula cells and
+errors by range-level queries against reading every formula cell back.
+
+Skipped, with the reason printed, where LibreOffice is not usable.
 """
 
 from __future__ import annotations
 
+import os
+import subprocess
 import sys
 import tempfile
 import time
@@ -53,7 +64,74 @@ def _book(path: Path) -> Path:
     return path
 
 
+def _mixed_book(path: Path, n_cells: int = N) -> Path:
+    """n_cells formula cells: column B FS_DENSITY on distinct temperatures, column C built-ins on B."""
+    import openpyxl
+
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Data"
+    for i in range(1, n_cells // 2 + 1):
+        ws.cell(i, 1, 10.0 + i * 1e-3)  # distinct temperatures [°C]
+        ws.cell(i, 2, f'={FUNCTION}("kerosene",A{i})')
+        ws.cell(i, 3, f"=IF(ISNUMBER(B{i}),ROUND(B{i}*2+A{i},3),-1)")
+    wb.save(path)
+    return path
+
+
+def _best(fn, repeat):
+    best, out = float("inf"), None
+    for _ in range(repeat):
+        t0 = time.perf_counter()
+        out = fn()
+        best = min(best, time.perf_counter() - t0)
+    return best, out
+
+
+def _recalc_cli(book: Path, out: Path, *engine) -> str:
+    """``fuelsys recalc`` in a fresh interpreter, as a user runs it; its standard output."""
+    env = dict(os.environ, PYTHONPATH=os.pathsep.join([str(ROOT), os.environ.get("PYTHONPATH", "")]))
+    res = subprocess.run([sys.executable, "-m", "fuelsys", "recalc", *engine, str(book), "--output", str(out)],
+                         capture_output=True, text=True, env=env, timeout=900)
+    if res.returncode != 0:
+        raise AssertionError(f"fuelsys recalc {' '.join(engine)} failed: {res.stderr}")
+    return res.stdout
+
+
+def run_engines(report) -> None:
+    """The built-in engine against the LibreOffice engine on the same 10,000-cell book."""
+    from fuelsys.sheet.calc_addin import runner
+
+    reason = runner.unavailable_reason()
+    if reason:
+        print(f"bench_calc: engines skipped: {reason}")
+        return
+    with tempfile.TemporaryDirectory(prefix="fuelsys-bench-engines-") as tmp:
+        tmp = Path(tmp)
+        book = _mixed_book(tmp / "mixed.xlsx")
+        builtin, _ = _best(lambda: _recalc_cli(book, tmp / "builtin.xlsx"), 2)
+        lo, text = _best(lambda: _recalc_cli(book, tmp / "lo.xlsx", "--engine", "libreoffice"), 2)
+        if f"{N:,} formula cells".replace(",", "") not in text.replace(",", "") or " 0 error values" not in text:
+            raise AssertionError(f"the LibreOffice engine did not count {N:,} clean formula cells: {text}")
+        report(f"fuelsys recalc {N:,}-cell book: built-in engine vs --engine libreoffice", builtin, lo,
+               f"LibreOffice takes {lo / builtin:.1f}x the built-in's time (goal: within 3x); fresh "
+               f"interpreter, extension build and LibreOffice start-up included")
+        oxt = runner.build_extension(tmp)
+        answer = runner.run_session([oxt], [{"src": str(book), "read": True, "count": True}], timeout=900)
+    res = answer["books"][0]
+    if res["counts"] != runner._count(res["cells"]):
+        raise AssertionError(f"range-level counts {res['counts']} differ from the cell-by-cell reading")
+    report(f"LibreOffice {N:,} formula cells: read every cell vs range-level counts", res["read_s"],
+           res["count_s"], f"cell by cell: {res['read_s'] / N * 1e6:.0f} us a cell; "
+           f"calculateAll {res['calculate_all_s']:.2f} s, load {res['load_s']:.2f} s")
+
+
 def run(report) -> None:
+    run_cells(report)
+    run_engines(report)
+
+
+def run_cells(report) -> None:
     from fuelsys.sheet import adapt, catalogue
     from fuelsys.sheet.calc_addin import generate, runner
 

@@ -594,7 +594,7 @@ def recalc_book(src_path, dst_path, *, timeout: float = 600.0) -> dict:
         try:
             oxt = build_extension(tmp)
             made = Path(tmp) / ("out" + (dst.suffix or ".xlsx"))
-            answer = run_session([oxt], [{"src": str(src), "dst": str(made), "read": True}], timeout=timeout,
+            answer = run_session([oxt], [{"src": str(src), "dst": str(made), "count": True}], timeout=timeout,
                                  cleanup=[tmp])
             store_output(made, dst)
         finally:
