@@ -499,3 +499,28 @@ def call(name: str, *cells):
     except KeyError:
         return error_text(f"unknown function {str(name)[:40]}; see FS_HELP() for the list")
     return call_spec(spec, *cells)
+
+
+def call_with_notes(spec: catalogue.Spec, *cells):
+    """Run ``spec`` as :func:`call_spec` does; also give the validity notes of that call.
+
+    Returns ``(result, notes)``: the cell result and the distinct note texts in
+    the order they came, each ``"FS_NAME: correlation: quantity value outside
+    its range low..high [unit] ..."`` -- the texts ``fuelsys recalc --notes``
+    lists.  The notes stay with this call: they do not reach an outer sink.
+    """
+    sink = []
+    outer = set_note_sink(sink)
+    try:
+        out = call_spec(spec, *cells)
+    finally:
+        set_note_sink(outer)
+    return out, list(dict.fromkeys(sink))
+
+
+def notes_text(spec: catalogue.Spec, *cells) -> str:
+    """FS_NOTES' text: "ok", the notes of the call one per line, or the call's own FS error text."""
+    out, notes = call_with_notes(spec, *cells)
+    if is_error(out):
+        return out
+    return "\n".join(notes) if notes else "ok"

@@ -99,6 +99,9 @@ ARG_KINDS = ("number", "text", "fuel", "range", "cells")
 RETURN_KINDS = ("number", "text", "table")
 CATEGORIES = ("fuel", "needles and lines", "vaporiser", "combustor", "engine and pump", "gas", "about")
 
+#: the longest description Excel's function wizard shows (xlwings cuts there)
+WIZARD_MAX = 255
+
 _NAME_OK = set("ABCDEFGHIJKLMNOPQRSTUVWXYZ0123456789_")
 
 
@@ -319,6 +322,16 @@ class Arg:
             text = "one of " + ", ".join(self.choices)
         return text
 
+    def wizard_text(self) -> str:
+        """The argument's help for the function wizards, at most 255 characters (a long list of
+        choices is left to FS_HELP)."""
+        text = self.help_text()
+        if len(text) > WIZARD_MAX and self.choices:
+            unit = "" if self.unit == "-" else f" [{self.unit}]"
+            opt = "" if self.required else ", optional"
+            text = f"{self.name}{unit}: {self.doc}; one of {len(self.choices)} names (FS_HELP lists them){opt}"
+        return text if len(text) <= WIZARD_MAX else text[:WIZARD_MAX - 1] + "…"
+
     def help_text(self) -> str:
         unit = "" if self.unit == "-" else f" [{self.unit}]"
         opt = "" if self.required else f", optional (default {self.default!r})" if self.default is not None else ", optional"
@@ -393,6 +406,17 @@ class Spec:
         lines += [f"  {a.help_text()}" for a in self.args]
         lines.append(f"  returns{unit}: {self.returns.doc}")
         return "\n".join(lines)
+
+    def wizard_text(self) -> str:
+        """One short description (at most 255 characters: Excel's function wizard cuts there) for
+        the function wizards of Excel and LibreOffice: the summary and what it returns, in its unit."""
+        unit = "" if self.returns.unit == "-" else f" [{self.returns.unit}]"
+        text = f"{self.summary}. Returns {self.returns.doc}{unit}."
+        if len(text) > WIZARD_MAX:
+            text = f"{self.summary}. Returns{unit or ' ' + self.returns.kind}; FS_HELP gives more."
+        if len(text) > WIZARD_MAX:
+            text = text[:WIZARD_MAX - 1] + "…"
+        return text
 
     def example_formula(self) -> str:
         """The documented example as a formula, ``=FS_DENSITY("kerosene", 20)``."""
@@ -472,6 +496,9 @@ def spreadsheet_function(*, name: str, category: str, summary: str, args, return
         import inspect
 
         params = list(inspect.signature(fn).parameters)
+        variadic = any(p.kind == p.VAR_POSITIONAL for p in inspect.signature(fn).parameters.values())
+        if variadic:
+            params = params[:-1] + [a.name for a in args[len(params) - 1:]]
         if len(params) != len(args):
             raise ValueError(f"{name}: the body takes {len(params)} parameters for {len(args)} arguments")
         if not si and params != [a.name for a in args]:

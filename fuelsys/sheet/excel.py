@@ -40,11 +40,11 @@ def _make(spec: catalogue.Spec):
     exec(compile(src, f"<fuelsys.sheet.excel {spec.name}>", "exec"), scope)  # noqa: S102 - names come from the catalogue
     fn = scope[spec.name]
     fn.__module__ = __name__
-    fn.__doc__ = spec.help_text()
+    fn.__doc__ = spec.wizard_text()  # the function wizard shows at most 255 characters
     fn.spec = spec
     if _xw is not None:
         for a in reversed(spec.args):
-            fn = _xw.arg(a.name, ndim=2, doc=a.help_text())(fn)
+            fn = _xw.arg(a.name, ndim=2, doc=a.wizard_text())(fn)
         fn = _xw.func(category="fuelsys")(fn)
     return fn
 

@@ -133,9 +133,8 @@ def _loc(prop: str, text: str, indent: str) -> str:
 
 
 def function_description(spec) -> str:
-    """The text the function wizard shows for a function."""
-    unit = "" if spec.returns.unit == "-" else f" [{spec.returns.unit}]"
-    return f"{spec.summary}. Returns {spec.returns.doc}{unit}. Method: {spec.source}."
+    """The text the function wizard shows for a function: the catalogue's one wizard text (<= 255)."""
+    return spec.wizard_text()
 
 
 def xcu_text(funcs=None) -> str:
@@ -160,7 +159,7 @@ def xcu_text(funcs=None) -> str:
         for arg, idl in zip(spec.args, info["idl_args"]):
             out.append(f'      <node oor:name="{idl}" oor:op="replace">')
             out.append(_loc("DisplayName", arg.name, "       "))
-            out.append(_loc("Description", arg.help_text(), "       "))
+            out.append(_loc("Description", arg.wizard_text(), "       "))
             out.append("      </node>")
         out.append("     </node>")
         out.append("    </node>")

@@ -313,6 +313,8 @@ def fs_tolerance_spread(gauge, wall, needles, L, dp, fuel, T, bore_tol, length_t
         r = tolerance_study(bore_min + tol, L, dp, float(rho), float(mu), int(needles), tol, length_tol,
                             samples=int(samples), seed=int(seed), od_min=od_range(g)[0])
     notes = sorted({str(w.message).split(":")[0] for w in caught if issubclass(w.category, ValidityWarning)})
+    for w in caught:  # shown in the table's validity row, and passed on to FS_NOTES and recalc --notes
+        warnings.warn(w.message, w.category, stacklevel=2)
     rows = [
         ("nominal bore", bore_min + tol, "mm"),
         ("bore tolerance", tol, "mm"),
