@@ -69,6 +69,10 @@ def _as_grid(value) -> list[list]:
     rows = list(value)
     if not rows:
         raise CellError("an empty range was given")
+    if type(rows[0]) is list:  # the usual shape: rows as lists, checked without a call per row
+        width = len(rows[0])
+        if width and all(map(list.__instancecheck__, rows)) and len(set(map(len, rows))) == 1:
+            return rows
     if not all(_is_range(r) for r in rows):
         rows = [[r] for r in rows]
     rows = [list(r.tolist() if isinstance(r, np.ndarray) else r) for r in rows]
@@ -153,11 +157,47 @@ def _text_or_error(arg: catalogue.Arg, value):
     return text, None
 
 
+def _numbers_fast(arg: catalogue.Arg, grid):
+    """A range of numbers checked with array operations; messages built only for failing cells.
+    None when a cell is not a plain number (the per-cell path then handles it)."""
+    for row in grid:
+        for v in row:
+            t = type(v)
+            if t is not float and t is not int:
+                return None
+    try:
+        vals = np.array(grid, dtype=float)
+    except (OverflowError, ValueError):
+        return None
+    bad = ~np.isfinite(vals)
+    if arg.gt is not None:
+        bad |= ~(vals > arg.gt)
+    if arg.lt is not None:
+        bad |= ~(vals < arg.lt)
+    if arg.low is not None:
+        bad |= vals < arg.low
+    if arg.high is not None:
+        bad |= vals > arg.high
+    if arg.integer:
+        bad |= vals != np.round(vals)
+    if arg.unit == "bar abs":
+        bad |= vals < catalogue.GAUGE_SUSPECT_BAR_ABS
+    errs = np.full(vals.shape, None, dtype=object)
+    if bad.any():
+        for i, j in zip(*np.nonzero(bad)):
+            vals[i, j], errs[i, j] = _number_or_error(arg, grid[i][j])
+    return vals, errs
+
+
 def _elementwise_arg(arg: catalogue.Arg, value):
     """-> (values array, errors object array), both of the cell's shape."""
     conv = _number_or_error if arg.kind == "number" else _text_or_error
     if _is_range(value):
         grid = _as_grid(value)
+        if arg.kind == "number":
+            fast = _numbers_fast(arg, grid)
+            if fast is not None:
+                return fast
         pairs = [[conv(arg, v) for v in row] for row in grid]
         dtype = float if arg.kind == "number" else object
         vals = np.array([[p[0] for p in row] for row in pairs], dtype=dtype)
@@ -274,7 +314,7 @@ def _bind(spec: catalogue.Spec, cells: tuple) -> list:
     values = list(cells) + [None] * (len(spec.args) - len(cells))
     bound = []
     for arg, v in zip(spec.args, values):
-        if _is_range(v) and arg.kind not in ("range", "cells"):
+        if _is_range(v) and arg.kind not in ("range", "cells") and len(v) == 1:
             try:  # a single-cell range holding an empty cell is an empty cell (xlwings passes [[None]])
                 grid = _as_grid(v)
                 if len(grid) == 1 and len(grid[0]) == 1 and _blank(grid[0][0]):
@@ -326,19 +366,26 @@ def _table_from_si(table, conv):
     return [_table_from_si(row, conv) for row in table]
 
 
+#: per spec (by id, the spec kept beside it): the argument and result conversions
+_CONVERSIONS: dict = {}
+
+
 def _invoke(spec, kwargs):
     """The body on arguments in declared units; for ``si=True`` the conversions both ways."""
     if not spec.si:
         return spec.impl(**kwargs)
+    convs = _CONVERSIONS.get(id(spec))
+    if convs is None or convs[0] is not spec:
+        convs = _CONVERSIONS[id(spec)] = (spec, [(a.name, a.conversion) for a in spec.args],
+                                          spec.returns.conversion)
     args = []
-    for arg in spec.args:
-        v = kwargs[arg.name]
-        conv = arg.conversion
+    for name, conv in convs[1]:
+        v = kwargs[name]
         if conv is not None and v is not None:
             v = conv.to_core(v if isinstance(v, (float, np.ndarray)) else np.asarray(v, dtype=float))
         args.append(v)
     res = spec.impl(*args)
-    conv = spec.returns.conversion
+    conv = convs[2]
     if conv is None:
         return res
     if spec.returns.kind == "table":
@@ -413,6 +460,7 @@ def _call_elementwise(spec, bound):
         raise CellError("the ranges given have shapes that do not fit together: "
                         + ", ".join(f"{n} {a.shape[0]}x{a.shape[1]}" for n, a in zip(ew_names, ew_vals) if a.ndim == 2))
     n = int(np.prod(shape)) if shape else 1
+    single = [a.ndim == 0 for a in ew_vals]  # one cell: passed as one value, not spread over the range
     vals = [np.broadcast_to(a, shape).reshape(n) for a in ew_vals]
     errs = [np.broadcast_to(e, shape).reshape(n) for e in ew_errs]
     out = np.empty(n, dtype=object)
@@ -440,20 +488,32 @@ def _call_elementwise(spec, bound):
                     kw[nm] = vals[i][idx[0]]
                     if args[nm].kind == "number":
                         kw[nm] = float(kw[nm])
+                elif single[i] and shape != ():
+                    kw[nm] = float(ew_vals[i])
                 else:
-                    kw[nm] = vals[i][idx].astype(float)
-            _run_group(spec, kw, idx, [ew_names[i] for i in range(len(ew_names)) if i not in grouped], out)
+                    kw[nm] = (vals[i] if idx.size == n else vals[i][idx]).astype(float)
+            _run_group(spec, kw, idx, [ew_names[i] for i in range(len(ew_names))
+                                       if i not in grouped and not (single[i] and shape != ())], out)
     if shape == ():
         return out[0]
     res = out.reshape(shape)
     if res.ndim == 1:
         res = res.reshape(-1, 1)
-    return [list(r) for r in res]
+    return res.tolist()
 
 
 def _run_group(spec, kw, idx, array_names, out):
     try:
         res = _run(spec, kw)
+        if spec.returns.kind == "number":
+            arr = np.asarray(res)
+            if arr.dtype.kind in "fiu":
+                arr = np.broadcast_to(arr.astype(float, copy=False), (idx.size,))
+                fin = np.isfinite(arr)
+                out[idx[fin]] = arr[fin].tolist() if not fin.all() else arr.tolist()
+                if not fin.all():
+                    out[idx[~fin]] = _cell_out(math.nan, "number")
+                return
         res = np.broadcast_to(np.asarray(res, dtype=object if spec.returns.kind == "text" else None), (idx.size,))
         for j, r in zip(idx, res.tolist()):
             out[j] = _cell_out(r, spec.returns.kind)
@@ -470,9 +530,122 @@ def _run_group(spec, kw, idx, array_names, out):
         _run_group(spec, one, np.array([j]), array_names, out)
 
 
+class _Plan:
+    """What the fast path needs of a spec, worked out once: per argument its kind, bounds and
+    converted default."""
+
+    __slots__ = ("args", "defaults", "simple")
+
+    def __init__(self, spec):
+        self.args = spec.args
+        self.defaults = []
+        for a in spec.args:
+            d = a.default
+            if a.required or d is None:
+                self.defaults.append(d)
+            elif a.kind == "fuel":
+                self.defaults.append(_fuel_arg(a, d))
+            else:
+                self.defaults.append(d)
+        # the fast path takes element-wise functions whose arguments are numbers, texts and fuels
+        self.simple = spec.returns.kind != "table" and all(a.kind in ("number", "text", "fuel") for a in spec.args)
+
+
+_PLANS: dict = {}
+_FUELS: dict = {}
+_NUM = (float, int)
+
+
+def _plan(spec) -> _Plan:
+    plan = _PLANS.get(spec.name)
+    if plan is None or plan.args is not spec.args:
+        plan = _PLANS[spec.name] = _Plan(spec)
+    return plan
+
+
+def _fast_number(a, v):
+    """A valid number cell as a float, or None (the slow path then builds the message)."""
+    t = type(v)
+    if t is not float and t is not int:
+        return None
+    if t is int and not -_FLOAT_MAX <= v <= _FLOAT_MAX:
+        return None
+    x = float(v)
+    if x != x or x in (math.inf, -math.inf):
+        return None
+    if ((a.gt is not None and not x > a.gt) or (a.lt is not None and not x < a.lt)
+            or (a.low is not None and x < a.low) or (a.high is not None and x > a.high)
+            or (a.integer and x != round(x)) or (a.unit == "bar abs" and x < catalogue.GAUGE_SUSPECT_BAR_ABS)):
+        return None
+    return x
+
+
+def _fast_single(spec, cells):
+    """All arguments single valid cells: one call on floats, no arrays, no grouping.  Returns
+    ``_SLOW`` when anything needs the general path (a range, an empty or bad cell ...)."""
+    plan = _plan(spec)
+    if not plan.simple or len(cells) > len(spec.args):
+        return _SLOW
+    kw = {}
+    n = len(cells)
+    for k, a in enumerate(spec.args):
+        v = cells[k] if k < n else None
+        if type(v) in (list, tuple, np.ndarray):
+            return _SLOW
+        if v is None or (type(v) is str and v == ""):
+            if a.required:
+                return _SLOW
+            kw[a.name] = plan.defaults[k]
+            continue
+        kind = a.kind
+        if kind == "number":
+            x = _fast_number(a, v)
+            if x is None:
+                return _SLOW
+            kw[a.name] = x
+        elif kind == "text":
+            if type(v) is not str or v.startswith(ERROR_PREFIX):
+                return _SLOW
+            text = v.strip()
+            if not text:
+                return _SLOW
+            if a.choices:
+                key = text.lower()
+                match = [c for c in a.choices if c.lower() == key]
+                if not match:
+                    return _SLOW
+                text = match[0]
+            kw[a.name] = text
+        else:  # fuel: a built-in name, looked up once
+            if type(v) is not str:
+                return _SLOW
+            fuel = _FUELS.get(v)
+            if fuel is None:
+                fuel = _fuel_arg(a, v)
+                if len(_FUELS) < 256:
+                    _FUELS[v] = fuel
+            kw[a.name] = fuel
+    try:
+        res = _run(spec, kw)
+    except (FuelsysInputError, CellError) as exc:
+        return error_text(str(exc))
+    if spec.returns.kind == "text":
+        return _cell_out(res if isinstance(res, str) else np.asarray(res, dtype=object).reshape(-1)[0], "text")
+    res = np.asarray(res, dtype=float)
+    if res.size != 1:
+        return _SLOW
+    return _cell_out(res.reshape(-1)[0], "number")
+
+
+_SLOW = object()
+
+
 def call_spec(spec: catalogue.Spec, *cells):
     """Run ``spec`` on cell values; see the module docstring."""
     try:
+        out = _fast_single(spec, cells)
+        if out is not _SLOW:
+            return out
         bound = _bind(spec, cells)
         if spec.returns.kind == "table":
             return _call_table(spec, bound)

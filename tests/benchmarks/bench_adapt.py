@@ -43,6 +43,11 @@ def _anchor_needle_point(dp, D, L, rho, mu, k_ent=0.5, rough=1.5e-6):
 
 
 def run(report):
+    import warnings
+
+    from fuelsys.errors import ValidityWarning
+
+    warnings.simplefilter("ignore", ValidityWarning)
     from fuelsys.flow.needle import needle_flow
     from fuelsys.fuels import get_fuel
     from fuelsys.sheet import call

@@ -12,6 +12,7 @@ import numpy as np
 
 from fuelsys.errors import FuelsysInputError
 from fuelsys.sheet.catalogue import Arg, Returns, from_si, spreadsheet_function
+from fuelsys.sheet.decl import checked_temperature
 
 _FUEL = Arg("fuel", "fuel", "-", "built-in fuel name or a fuel table range", default="kerosene")
 _TEMP = Arg("temp_c", "number", "°C", "fuel temperature", default=20.0, gt=-273.15)
@@ -102,7 +103,7 @@ def fs_pump_need(mdot, p_case, needle_dp, line_dp, head, g_load, margin_pct, fue
     fuel = fuel.with_oil(oil_pct)
     from fuelsys import pump
 
-    rho = np.asarray(_liquid(fuel).density(fuel.check_temperature(T, "temp_c")))
+    rho = np.asarray(_liquid(fuel).density(checked_temperature(fuel, T, "temp_c")))
     p = pump.system_pressure(p_case, needle_dp, line_dp, density=rho, head=head, g_load=g_load,
                              margin_pct=margin_pct)
     return np.asarray(p) + 0.0 * mdot  # the flow only sets the shape of the answer
@@ -139,7 +140,7 @@ def fs_pump_fit(mdot, p, volts, fuel, T, winding_ohm, kv_rpm_per_v, oil_pct):
     mdot, p, v, T = (np.atleast_1d(np.asarray(x, dtype=float)) for x in (mdot, p, volts, T))
     if T.size not in (1, mdot.size):
         raise FuelsysInputError(f"temp_c: give one temperature or one per test point ({mdot.size}), got {T.size}")
-    T = _liquid(fuel).check_temperature(T, "temp_c")
+    T = checked_temperature(_liquid(fuel), T, "temp_c")
     rho = np.asarray(fuel.density(T))
     mu = np.asarray(fuel.dynamic_viscosity(T))
     if mdot.size != p.size or mdot.size != v.size:
@@ -170,7 +171,7 @@ def _pump(coefficients):
 def fs_pump_volts(coefficients, mdot, p, fuel, T, oil_pct):
     fuel = fuel.with_oil(oil_pct)
     pmp = _pump(coefficients)
-    T = _liquid(fuel).check_temperature(T, "temp_c")
+    T = checked_temperature(_liquid(fuel), T, "temp_c")
     q = mdot / np.asarray(fuel.density(T))
     v = np.asarray(pmp.volts(q, p, fuel.dynamic_viscosity(T)))
     pmp.flag_untested(v)
@@ -192,7 +193,7 @@ def fs_pump_volts(coefficients, mdot, p, fuel, T, oil_pct):
 def fs_pump_flow(coefficients, volts, dp, fuel, T, oil_pct):
     fuel = fuel.with_oil(oil_pct)
     pmp = _pump(coefficients)
-    T = _liquid(fuel).check_temperature(T, "temp_c")
+    T = checked_temperature(_liquid(fuel), T, "temp_c")
     mu = fuel.dynamic_viscosity(T)
     pmp.flag_untested(volts)
     q = np.asarray(pmp.flow(volts, dp, mu))

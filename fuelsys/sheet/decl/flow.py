@@ -17,6 +17,7 @@ import numpy as np
 
 from fuelsys.errors import FuelsysInputError, ValidityWarning
 from fuelsys.sheet.catalogue import Arg, Returns, from_si, spreadsheet_function
+from fuelsys.sheet.decl import checked_temperature
 
 _FUEL = Arg("fuel", "fuel", "-", "built-in fuel name (kerosene, water, ...) or a fuel table range")
 _TEMP = Arg("temp_c", "number", "°C", "fuel temperature", gt=-273.15)
@@ -48,7 +49,7 @@ def _props(fuel, T, oil_pct):
         raise FuelsysInputError("fuel: air is a gas; the needle and line models are for liquids "
                                 "(for a gas jet use FS_GAS_JET_FLOW)")
     f = fuel.with_oil(oil_pct) if oil_pct else fuel
-    T = f.check_temperature(T, "temp_c")
+    T = checked_temperature(f, T, "temp_c")
     return f.density(T), f.dynamic_viscosity(T)
 
 

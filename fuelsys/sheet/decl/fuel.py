@@ -11,6 +11,7 @@ import numpy as np
 
 from fuelsys.errors import FuelsysInputError
 from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
+from fuelsys.sheet.decl import checked_temperature
 
 _FUEL = Arg("fuel", "fuel", "-", "built-in fuel name (kerosene, propane, butane, ...) or a fuel table range")
 _TEMP = Arg("temp_c", "number", "°C", "fuel temperature", gt=-273.15)
@@ -45,7 +46,7 @@ def _named(name, fn, *args):
 )
 def fs_density(fuel, T, oil_pct):
     f = fuel.with_oil(oil_pct)
-    return f.density(f.check_temperature(T, "temp_c"))
+    return f.density(checked_temperature(f, T, "temp_c"))
 
 
 @spreadsheet_function(
@@ -60,7 +61,7 @@ def fs_density(fuel, T, oil_pct):
 )
 def fs_viscosity(fuel, T, oil_pct):
     f = fuel.with_oil(oil_pct)
-    return f.kinematic_viscosity(f.check_temperature(T, "temp_c"))
+    return f.kinematic_viscosity(checked_temperature(f, T, "temp_c"))
 
 
 @spreadsheet_function(
@@ -75,7 +76,7 @@ def fs_viscosity(fuel, T, oil_pct):
 )
 def fs_specific_heat(fuel, T, oil_pct):
     f = fuel.with_oil(oil_pct)
-    return f.specific_heat(f.check_temperature(T, "temp_c"))
+    return f.specific_heat(checked_temperature(f, T, "temp_c"))
 
 
 @spreadsheet_function(
@@ -88,7 +89,7 @@ def fs_specific_heat(fuel, T, oil_pct):
     example=("kerosene", 20),
 )
 def fs_conductivity(fuel, T):
-    return fuel.conductivity(fuel.check_temperature(T, "temp_c"))
+    return fuel.conductivity(checked_temperature(fuel, T, "temp_c"))
 
 
 @spreadsheet_function(
@@ -101,7 +102,7 @@ def fs_conductivity(fuel, T):
     example=("kerosene", 20),
 )
 def fs_surface_tension(fuel, T):
-    return fuel.surface_tension(fuel.check_temperature(T, "temp_c"))
+    return fuel.surface_tension(checked_temperature(fuel, T, "temp_c"))
 
 
 @spreadsheet_function(
@@ -115,7 +116,7 @@ def fs_surface_tension(fuel, T):
     example=("kerosene", 150),
 )
 def fs_vapour_pressure(fuel, T):
-    return fuel.vapour_pressure(fuel.check_temperature(T, "temp_c"))
+    return fuel.vapour_pressure(checked_temperature(fuel, T, "temp_c"))
 
 
 @spreadsheet_function(
@@ -129,7 +130,7 @@ def fs_vapour_pressure(fuel, T):
     example=("kerosene", 150),
 )
 def fs_latent_heat(fuel, T):
-    return fuel.latent_heat(fuel.check_temperature(T, "temp_c"))
+    return fuel.latent_heat(checked_temperature(fuel, T, "temp_c"))
 
 
 @spreadsheet_function(

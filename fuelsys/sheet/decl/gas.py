@@ -9,6 +9,7 @@ import numpy as np
 
 from fuelsys.errors import FuelsysInputError
 from fuelsys.sheet.catalogue import Arg, Returns, from_si, spreadsheet_function
+from fuelsys.sheet.decl import checked_temperature
 
 _GAS = Arg("gas", "text", "-", "propane, butane, isobutane or a blend lpg-XX-YY (% by mass)")
 
@@ -48,7 +49,7 @@ def fs_gas_jet_flow(d, L, up, down, gas, T, cd):
     fluid = _get(gas)
     if np.any(down > up):
         raise FuelsysInputError("down_bar_abs must not be above up_bar_abs (gas flows from high to low pressure)")
-    T = fluid.check_temperature(T, "temp_c")
+    T = checked_temperature(fluid, T, "temp_c")
     if np.all(L == 0) or np.all(L > 0):
         m = gas_start.jet_mass_flow(fluid, d, L, up, down, T, cd)
     else:  # a column mixing orifices and needles: each kind by its own method

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
+from fuelsys.sheet.decl import checked_temperature
 
 _GAS_DOC = ("propane, butane, isobutane, or a blend lpg-XX-YY (propane/n-butane, % by mass) "
             "or lpg-XX-YY-iso (propane/isobutane, % by mass)")
@@ -37,4 +38,4 @@ def fs_canister_pressure(gas, T, drawn):
     if not all(k in ("propane", "n-butane", "isobutane") for k in fluid.components):
         raise FuelsysInputError(f"gas: {gas} is not a canister gas; use propane, butane, isobutane "
                                 "or a blend lpg-XX-YY / lpg-XX-YY-iso")
-    return fluid.canister_pressure(fluid.check_temperature(T, "temp_c"), drawn)
+    return fluid.canister_pressure(checked_temperature(fluid, T, "temp_c"), drawn)
