@@ -1,80 +1,191 @@
-"""Every public function of the physics modules documents each parameter with its unit, and a source.
+"""The docstring rule, checked once for every public function of the core (non-sheet) modules.
 
-STYLE.md "Do" 1 and DESIGN.md: each parameter's description ends with its unit in
-brackets ("[m]", "[-]" when dimensionless), and every method names its published
-source (a References section, or a "Notes"/"Method" text naming one).
+STYLE.md "Do" 1 and 7, DESIGN.md: every parameter's description ends with its unit in
+brackets ("[m]", "[-]" when dimensionless); every method names its published source in a
+References section; every public function shows a runnable example (the examples
+themselves run under ``--doctest-modules``, set in pyproject.toml).
+
+The modules are found by walking the package, not from a hand-kept list: every module of
+fuelsys except the spreadsheet face (``fuelsys.sheet``, whose functions are declared and
+documented through the catalogue), the command line, private modules (a name part
+starting with ``_``) and the tool modules in :data:`TOOL_MODULES`.
+
+This is the one parser of the numpydoc sections in the tests; other tests that need the
+Parameters of a docstring import :func:`sections` and :func:`parameter_descriptions`.
 """
+
+from __future__ import annotations
 
 import importlib
 import inspect
+import pkgutil
 import re
 
 import pytest
 
-MODULES = [
-    "fuelsys.fuels.petroleum", "fuelsys.fuels.blend", "fuelsys.fuels.library", "fuelsys.fuels.gases",
-    "fuelsys.flow.tubing", "fuelsys.flow.friction", "fuelsys.flow.fittings", "fuelsys.flow.needle",
-    "fuelsys.flow.manifold", "fuelsys.flow.lines", "fuelsys.flow.bench", "fuelsys.flow.tolerance",
-    "fuelsys.heat", "fuelsys.vaporiser", "fuelsys.thermo", "fuelsys.equilibrium", "fuelsys.combustor",
-    "fuelsys.engine", "fuelsys.pump", "fuelsys.gas_start",
-]
+import fuelsys
+
+#: modules of tools rather than methods (no physical parameters, no published method)
+TOOL_MODULES = {
+    "fuelsys.errors": "the error and warning classes and their helpers",
+    "fuelsys.arrays": "array conversion and input checks",
+    "fuelsys.constants": "physical constants (each with its source beside it, not a function)",
+    "fuelsys.roots": "the vectorised root finder (numerical method, sources in the module docstring)",
+}
+
+#: the parts of the package that are not the core API
+NOT_CORE = ("fuelsys.sheet", "fuelsys.cli", "fuelsys.__main__")
+
+#: public functions exempt from the References and Examples rule, with the reason
+NO_METHOD = {
+    "fuelsys.fuels.blend.turbine_oil": "accessor of the built-in oil, whose every datum carries its source",
+    "fuelsys.fuels.library.expected_rows_text": "text listing the rows of a fuel table",
+    "fuelsys.fuels.library.kerosene_sources": "accessor of the source of each datum of the built-in kerosene",
+    "fuelsys.fuels.library.kerosene_table": "accessor of the built-in kerosene's data sheet (sourced per row)",
+    "fuelsys.fuels.known_fuel_names": "the list of built-in names",
+}
 
 
-def _public_functions():
-    for name in MODULES:
+def core_modules() -> list[str]:
+    """Names of the core modules: every module of fuelsys outside NOT_CORE, private names and TOOL_MODULES."""
+    names = []
+    for info in pkgutil.walk_packages(fuelsys.__path__, "fuelsys."):
+        name = info.name
+        if name.startswith(NOT_CORE) or name in TOOL_MODULES:
+            continue
+        if any(part.startswith("_") for part in name.split(".")[1:]):
+            continue
+        names.append(name)
+    return sorted(names)
+
+
+def public_functions(module_names):
+    """``{qualified name: function}`` of the public functions defined in each module."""
+    out = {}
+    for name in module_names:
         mod = importlib.import_module(name)
         for fname, fn in inspect.getmembers(mod, inspect.isfunction):
-            if fname.startswith("_") or fn.__module__ != mod.__name__:
-                continue
-            yield f"{name}.{fname}", fn
+            if not fname.startswith("_") and fn.__module__ == mod.__name__:
+                out[f"{name}.{fname}"] = fn
+    return out
 
 
-FUNCS = dict(_public_functions())
+def sections(doc: str) -> dict[str, list[str]]:
+    """The numpydoc sections of ``doc``: ``{title: lines}``, a title being a line underlined by dashes."""
+    lines = inspect.cleandoc(doc or "").splitlines()
+    out, current, i = {}, None, 0
+    while i < len(lines):
+        if i + 1 < len(lines) and lines[i].strip() and re.fullmatch(r"-{3,}", lines[i + 1].strip()):
+            current = lines[i].strip()
+            out[current] = []
+            i += 2
+            continue
+        if current is not None:
+            out[current].append(lines[i])
+        i += 1
+    return out
 
 
-def _parameter_blocks(doc: str):
-    """(name, description text) for each entry of the numpydoc Parameters section."""
-    m = re.search(r"\n\s*Parameters\n\s*-{5,}\n(.*?)(\n\s*\n\s*[A-Z][A-Za-z ]+\n\s*-{5,}|\Z)", doc, re.S)
-    if not m:
+def parameter_descriptions(doc: str, section: str = "Parameters") -> dict[str, str] | None:
+    """``{parameter name: description}`` from the Parameters (or another such) section (None without one).
+
+    An entry starts at the margin (``name : type`` or ``a, b : type``); the lines indented
+    under it are its description.  ``*args`` and ``**kwargs`` keep their stars.
+    """
+    sec = sections(doc)
+    if section not in sec:
         return None
-    body = m.group(1)
-    entries, current = [], None
-    for line in body.splitlines():
-        if re.match(r"^[A-Za-z_*][A-Za-z0-9_, *]*\s*:", line):  # entries start at the margin (getdoc dedents)
-            current = [line.split(":")[0].strip(), ""]
-            entries.append(current)
+    entries, current = {}, None
+    for line in sec[section]:
+        if line.strip() and not line[0].isspace():
+            current = [n.strip() for n in line.split(":")[0].split(",")]
+            for n in current:
+                entries[n] = ""
         elif current is not None:
-            current[1] += " " + line.strip()
+            for n in current:
+                entries[n] = (entries[n] + " " + line.strip()).strip()
     return entries
 
 
-@pytest.mark.parametrize("qualname", sorted(FUNCS))
-def test_each_parameter_names_its_unit(qualname):
-    fn = FUNCS[qualname]
-    params = [p for p in inspect.signature(fn).parameters.values()
-              if p.name not in ("self", "cls") and p.kind not in (p.VAR_POSITIONAL, p.VAR_KEYWORD)]
+#: the unit in brackets closes the description; a remark in parentheses may follow it
+UNIT_AT_END = re.compile(r"\[[^\]]+\]\.?(\s*\([^()]*\))?\.?$")
+
+
+def unit_problems(fn) -> list[str]:
+    """What breaks the unit rule in ``fn``'s docstring (empty when it holds)."""
+    params = [p for p in inspect.signature(fn).parameters.values() if p.name not in ("self", "cls")]
     if not params:
-        return
-    doc = inspect.getdoc(fn) or ""
-    blocks = _parameter_blocks("\n" + doc)
-    assert blocks is not None, f"{qualname}: no Parameters section"
-    documented = {}
-    for names, text in blocks:
-        for n in names.split(","):
-            documented[n.strip().lstrip("*")] = text.strip()
+        return []
+    documented = parameter_descriptions(fn.__doc__ or "")
+    if documented is None:
+        return ["no Parameters section"]
+    problems = []
     for p in params:
-        assert p.name in documented, f"{qualname}: parameter {p.name} is not documented"
-        assert re.search(r"\[[^\]]+\]", documented[p.name]), \
-            f"{qualname}: parameter {p.name} names no unit in brackets: {documented[p.name][:80]!r}"
+        key = {p.VAR_POSITIONAL: "*", p.VAR_KEYWORD: "**"}.get(p.kind, "") + p.name
+        text = documented.get(key, documented.get(p.name))
+        if text is None:
+            problems.append(f"parameter {key} is not documented")
+        elif not UNIT_AT_END.search(text):
+            problems.append(f"parameter {key} does not end with its unit in brackets: {text[-80:]!r}")
+    taken = {p.name for p in params}
+    for key in documented:
+        if key.lstrip("*") not in taken:
+            problems.append(f"documents {key}, which it does not take")
+    return problems
 
 
-#: accessors of data tables whose every row carries its own source (no method of their own)
-DATA_ACCESSORS = {"fuelsys.fuels.blend.turbine_oil", "fuelsys.fuels.library.expected_rows_text",
-                  "fuelsys.fuels.library.kerosene_sources", "fuelsys.fuels.library.kerosene_table"}
+MODULES = core_modules()
+FUNCS = public_functions(MODULES)
 
 
-@pytest.mark.parametrize("qualname", sorted(set(FUNCS) - DATA_ACCESSORS))
-def test_each_function_names_a_source(qualname):
-    doc = inspect.getdoc(FUNCS[qualname]) or ""
-    assert re.search(r"References\n-{5,}|Notes\n-{5,}|\(\d{4}\)|\b(19|20)\d\d\b|ISO|ASTM|API|CoolProp|:func:|:meth:", doc), \
-        f"{qualname}: no source named in the docstring"
+def test_the_walk_finds_the_core():
+    """The walk finds the physics floors (a wrong filter would silently check nothing)."""
+    for expected in ("fuelsys.fuels.petroleum", "fuelsys.flow.needle", "fuelsys.thermo", "fuelsys.engine"):
+        assert expected in MODULES
+    assert not [m for m in MODULES if m.startswith("fuelsys.sheet")]
+    assert len(FUNCS) > 100
+    assert set(NO_METHOD) <= set(FUNCS), "an exemption names a function that no longer exists"
+
+
+@pytest.mark.parametrize("qualname", sorted(FUNCS))
+def test_each_parameter_ends_with_its_unit(qualname):
+    problems = unit_problems(FUNCS[qualname])
+    assert not problems, f"{qualname}: " + "; ".join(problems)
+
+
+@pytest.mark.parametrize("qualname", sorted(set(FUNCS) - set(NO_METHOD)))
+def test_each_function_names_its_source_and_shows_an_example(qualname):
+    sec = sections(FUNCS[qualname].__doc__ or "")
+    assert "References" in sec and any(line.strip() for line in sec["References"]), \
+        f"{qualname}: no References section"
+    assert "Examples" in sec and any(">>>" in line for line in sec["Examples"]), f"{qualname}: no example"
+
+
+def test_the_parser_reads_numpydoc():
+    doc = """Summary.
+
+    Parameters
+    ----------
+    a, b : float
+        Two lengths,
+        on two lines [m].
+    c : float
+        A ratio [-] (of two lengths).
+    **kw : dict
+        Options, no unit.
+
+    Returns
+    -------
+    float
+        Something [m].
+    """
+    got = parameter_descriptions(doc)
+    assert got == {"a": "Two lengths, on two lines [m].", "b": "Two lengths, on two lines [m].",
+                   "c": "A ratio [-] (of two lengths).", "**kw": "Options, no unit."}
+    assert list(sections(doc)) == ["Parameters", "Returns"]
+
+    def f(a, b, c, **kw):
+        pass
+
+    f.__doc__ = doc
+    assert unit_problems(f) == ["parameter **kw does not end with its unit in brackets: 'Options, no unit.'"]

@@ -270,6 +270,7 @@ def test_functions_sheet_lists_the_catalogue(built):
     assert [n for n in names if isinstance(n, str) and n.startswith("FS_")] == list(catalogue.functions())
 
 
+@pytest.mark.live
 def test_pdf_render_of_the_first_pages_has_no_error_cells(tmp_path):
     """A real spreadsheet program renders the book (LibreOffice headless, without the fuelsys extension).
 

@@ -434,49 +434,19 @@ def test_tube_air_flow_bad_input():
         vap.tube_air_flow(BORE, 0.03, P3, T3, method="guess")
 
 
-def test_docstrings_name_units_and_sources():
-    """Every public function of fuelsys.vaporiser and fuelsys.heat has References and a unit on each parameter
-    (STYLE.md "Do" 1); the keyword options of vaporiser() are each documented under Other Parameters."""
-    import dataclasses
-    import inspect
-    import re
-
-    for mod in (vap, heat):
-        for name, fn in inspect.getmembers(mod, inspect.isfunction):
-            if name.startswith("_") or fn.__module__ != mod.__name__:
-                continue
-            doc = inspect.getdoc(fn) or ""
-            assert "References" in doc and "Examples" in doc, f"{mod.__name__}.{name}"
-            params = [p.name if p.kind != p.VAR_KEYWORD else "**" + p.name
-                      for p in inspect.signature(fn).parameters.values()]
-            if not params:
-                continue
-            for title, names in (("Parameters", params), ("Other Parameters", _option_names(fn))):
-                if not names:
-                    continue
-                section = doc.split(f"\n{title}\n{'-' * len(title)}\n", 1)
-                assert len(section) == 2, f"{mod.__name__}.{name}: no {title} section"
-                body = re.split(r"\n(?:Other Parameters|Returns|Raises|Notes|References|Examples)\n-+\n",
-                                section[1])[0]
-                entries = re.split(r"\n(?=(?:\*\*)?\w+ *(?::|\n))", body.strip())
-                assert [e.split(":")[0].split("\n")[0].strip() for e in entries] == names, f"{mod.__name__}.{name}"
-                for entry in entries:
-                    assert re.search(r"\[[^\]]+\]\s*$", entry.strip()), f"{mod.__name__}.{name}: no unit in {entry!r}"
-    assert dataclasses.is_dataclass(vap.FuelEntry)
-
-
-def _option_names(fn):
-    """Keyword options of vaporiser() (the fields of its option groups), in the docstring's order."""
+def test_vaporiser_options_are_documented():
+    """vaporiser()'s keyword options (the fields of its option groups) are each documented under Other
+    Parameters, ending with a unit (the docstring rule and parser of tests/test_docstrings.py)."""
     import dataclasses
 
-    if fn is not vap.vaporiser:
-        return []
+    from test_docstrings import UNIT_AT_END, parameter_descriptions
+
     names = [f.name for cls in vap.OPTION_GROUPS.values() for f in dataclasses.fields(cls)]
-    doc_order = ["t_fuel_in", "droplet_diameter", "needle_bore", "needle_od", "n_steps", "laminar", "inner_htc",
-                 "flame_speed_method", "coking_limit", "ambient_pressure", "check_steps", "n_table", "shape",
-                 "return_length", "return_wall", "bend_radius"]
-    assert sorted(names) == sorted(doc_order)
-    return doc_order
+    documented = parameter_descriptions(vap.vaporiser.__doc__, "Other Parameters")
+    assert sorted(documented) == sorted(names)
+    for name, text in documented.items():
+        assert UNIT_AT_END.search(text), f"vaporiser option {name}: no unit in {text!r}"
+    assert dataclasses.is_dataclass(vap.FuelEntry)
 
 
 def test_wall_descriptions_refuse_bad_input():

@@ -1122,8 +1122,8 @@ def stoich_far_from_composition(w_c, w_h, w_o=0.0):
     --------
     n-Decane, C10H22 (textbook air/fuel ratio 15.0):
 
-    >>> round(1 / stoich_far_from_composition(0.8442, 0.1558), 1)
-    15.0
+    >>> round(1 / stoich_far_from_composition(0.8442, 0.1558), 2)
+    15.07
     """
     o2 = _arr(w_c) / M_C * M_O2 + _arr(w_h) / (4 * M_H) * M_O2 - _arr(w_o)
     return as_float(W_O2_AIR / o2)
