@@ -20,7 +20,7 @@ from fuelsys import demo, engine, pump, thermo, vaporiser
 from fuelsys.flow.lines import line_dp_fuel
 from fuelsys.flow.needle import needle_dp_fuel
 from fuelsys.flow.tubing import needle_bore
-from fuelsys.fuels import get_fuel
+from fuelsys.fuels import fuel_h_to_c, get_fuel
 from fuelsys.gas_start import jet_mass_flow
 
 T0 = 273.15
@@ -38,7 +38,7 @@ def size() -> dict:
     p_case = engine.case_pressure(rpm / e["rpm_max"], e["pr_max"], p_amb)           # gauge [Pa]
     p3 = p_case + p_amb
     t3 = (e["ambient_c"] + T0) * (1 + ((p3 / p_amb) ** (0.4 / 1.4) - 1) / e["compressor_eff"])
-    fuel_flow = engine.fuel_flow(air / 1e3, t3, t4_c + T0, base.lhv, engine.fuel_h_to_c(base),
+    fuel_flow = engine.fuel_flow(air / 1e3, t3, t4_c + T0, base.lhv, fuel_h_to_c(base),
                                  e["combustion_eff"])                                    # [kg/s]
     per_needle = fuel_flow / n["count"]
 

@@ -48,13 +48,9 @@ from __future__ import annotations
 import numpy as np
 
 from fuelsys import thermo
+from fuelsys.constants import P_ISA, T_ISA
 from fuelsys.errors import FuelsysInputError, require, warn_validity
 from fuelsys.arrays import as_float as _out
-
-#: ISA sea-level static pressure [Pa] and temperature [K] (ISO 2533)
-P_ISA = 101325.0
-T_ISA = 288.15
-
 
 
 def _finite(x, name, unit, positive=True):
@@ -492,35 +488,6 @@ def fuel_flow(air_flow, t3, t4, lhv, h_to_c, efficiency=1.0, h_fuel=0.0):
     """
     m = _finite(air_flow, "air flow", "kg/s")
     return _out(m * np.asarray(fuel_air_ratio_energy_balance(t3, t4, lhv, h_to_c, efficiency, h_fuel)))
-
-
-def fuel_h_to_c(fuel):
-    """Molar H/C ratio of a :class:`fuelsys.fuels.base.Fuel` (its own, else from its stoichiometric ratio).
-
-    Parameters
-    ----------
-    fuel : Fuel
-        A fuel object with ``stoich_far`` (or ``h_to_c``) [-]
-
-    Returns
-    -------
-    float
-        H/C ratio [-]
-
-    References
-    ----------
-    :func:`fuelsys.thermo.hydrogen_carbon_ratio`.
-
-    Examples
-    --------
-    >>> class K: stoich_far = 0.068
-    >>> round(fuel_h_to_c(K()), 2)
-    1.94
-    """
-    y = getattr(fuel, "h_to_c", None)
-    if y is not None and np.isfinite(y):
-        return float(y)
-    return float(thermo.hydrogen_carbon_ratio(float(fuel.stoich_far)))
 
 
 # -- the operating line ------------------------------------------------------------

@@ -21,7 +21,7 @@ The fuel
 --------
 * A :class:`fuelsys.fuels.base.Fuel` (``get_fuel("kerosene")``, a user's
   fuel table, an oil blend, the LPG gases): the fuel is CH_y, y from
-  :func:`fuelsys.engine.fuel_h_to_c` (the same H/C ratio the engine's fuel
+  :func:`fuelsys.fuels.fuel_h_to_c` (the same H/C ratio the engine's fuel
   demand uses), in the state its lower heating value refers to (liquid at
   25 °C for every fuelsys fuel); its enthalpy of formation follows from that
   heating value, so complete combustion here and the engine's energy balance
@@ -68,14 +68,12 @@ from dataclasses import dataclass
 import numpy as np
 
 from fuelsys import thermo
+from fuelsys.constants import P_STANDARD, R_MOLAR, T_REF
 from fuelsys.errors import FuelsysInputError, warn_validity
+from fuelsys.fuels import fuel_h_to_c, get_fuel
 from fuelsys.arrays import as_float as _out
 
-#: standard-state pressure of the NASA polynomials [Pa]
-P_STANDARD = 1.0e5
-#: reference temperature of enthalpies of formation and heating values [K]
-T_REF = thermo.T_REF
-R = thermo.R_MOLAR
+R = R_MOLAR
 
 #: elements, in the order of every element array here
 ELEMENTS = ("C", "H", "O", "N", "Ar")
@@ -134,13 +132,13 @@ NASA9_EXTRA = {
 #: the range the method is offered and tested for (tests/test_equilibrium.py against Cantera)
 VALIDITY = {
     "phi": (0.3, 2.0, "-"),
-    "t_in": (250.0, 900.0, "K"),
-    "p": (0.5e5, 20.0e5, "Pa"),
+    "t_inlet": (250.0, 900.0, "K"),
+    "P": (0.5e5, 20.0e5, "Pa"),
 }
 #: hard limits (FuelsysInputError outside): the NASA polynomials' range for the inlet temperature,
 #: a positive pressure, and an equivalence ratio below the one at which the reactants hold as many
 #: carbon as oxygen atoms (C/O = 1, where solid carbon, absent from the product set, must form)
-HARD_LIMITS = {"t_in": (200.0, 3000.0, "K")}
+HARD_LIMITS = {"t_inlet": (200.0, 3000.0, "K")}
 
 _MM = {s: sum(n * thermo.ATOMIC_MASS[e] for e, n in COMPOSITION[s].items()) for s in SPECIES}
 _MOLAR_MASS = np.array([_MM[s] for s in SPECIES])
@@ -397,7 +395,7 @@ def fuel_composition(fuel="kerosene"):
     References
     ----------
     McBride, Gordon & Reno (1993) for the species; for Fuel objects the H/C
-    ratio of :func:`fuelsys.engine.fuel_h_to_c` and the fuel's heating value.
+    ratio of :func:`fuelsys.fuels.fuel_h_to_c` and the fuel's heating value.
 
     Examples
     --------
@@ -410,11 +408,7 @@ def fuel_composition(fuel="kerosene"):
         key = {k.lower(): k for k in FUEL_SPECIES}.get(fuel.strip().lower())
         if key is not None:
             return _species_fuel(key)
-        from fuelsys.fuels import get_fuel
-
         fuel = get_fuel(fuel.strip())
-    from fuelsys.engine import fuel_h_to_c
-
     lhv = getattr(fuel, "lhv", float("nan"))
     return ch_fuel(fuel_h_to_c(fuel), lhv, getattr(fuel, "name", "fuel"))
 
@@ -432,13 +426,13 @@ _AIR_N = _air_moles()
 _AIR_B = _A @ _AIR_N  # element moles per kg air
 
 
-def _reactants(phi, t_in, fc, h_fuel):
+def _reactants(phi, t_inlet, fc, h_fuel):
     """Element moles b0 (N, E) and enthalpy h0 (N,) per kg of mixture, and the fuel/air ratio."""
     far = phi * fc.stoich_far
     c, h, o = fc.atoms
     b_fuel = np.array([c, h, o, 0.0, 0.0]) / fc.molar_mass  # per kg fuel
     b0 = (_AIR_B + far[..., None] * b_fuel) / (1.0 + far)[..., None]
-    h_air = species_properties(t_in)["h"] @ _AIR_N  # J/kg air, absolute
+    h_air = species_properties(t_inlet)["h"] @ _AIR_N  # J/kg air, absolute
     h0 = (h_air + far * (fc.h_ref / fc.molar_mass + h_fuel)) / (1.0 + far)
     return b0, h0, far
 
@@ -447,10 +441,10 @@ def _reactants(phi, t_in, fc, h_fuel):
 _SIZE = 18.420681  # ln(1e8): species below 1e-8 of the moles are "small" (RP-1311 §3.3)
 
 
-def _equilibrate_hp(b0, h0, p, allowed, max_iter=80):
+def _equilibrate_hp(b0, h0, P, allowed, max_iter=80):
     """Equilibrium at fixed enthalpy and pressure; all points in one batched Newton iteration.
 
-    b0 (N, E) element moles per kg, h0 (N,) J/kg, p (N,) Pa, allowed (N, S) bool.
+    b0 (N, E) element moles per kg, h0 (N,) J/kg, P (N,) Pa, allowed (N, S) bool.
     Returns T (N,), n_j (N, S) mol/kg and a converged flag (N,).
     """
     N, S = allowed.shape
@@ -463,7 +457,7 @@ def _equilibrate_hp(b0, h0, p, allowed, max_iter=80):
     lnn = np.log(0.1 * np.sum(b0, axis=1))
     lnnj = np.where(allowed, lnn[:, None] - np.log(np.maximum(allowed.sum(1, keepdims=True), 1)), 0.0)
     lnT = np.full(N, np.log(3800.0))
-    lnp = np.log(p / P_STANDARD)
+    lnp = np.log(P / P_STANDARD)
     converged = np.zeros(N, dtype=bool)
     idx = np.arange(N)
     for _ in range(max_iter):
@@ -528,23 +522,23 @@ def _equilibrate_hp(b0, h0, p, allowed, max_iter=80):
 
 
 # -- public functions -----------------------------------------------------------------
-def _inputs(phi, t_in, p, h_fuel):
-    phi, t_in, p, h_fuel = (np.asarray(x, dtype=float) for x in (phi, t_in, p, h_fuel))
-    shape = np.broadcast_shapes(phi.shape, t_in.shape, p.shape, h_fuel.shape)
-    phi, t_in, p, h_fuel = (np.broadcast_to(x, shape).ravel() for x in (phi, t_in, p, h_fuel))
-    for name, x, unit in (("phi", phi, "-"), ("t_in", t_in, "K"), ("p", p, "Pa"), ("h_fuel", h_fuel, "J/kg")):
+def _inputs(phi, t_inlet, P, h_fuel):
+    phi, t_inlet, P, h_fuel = (np.asarray(x, dtype=float) for x in (phi, t_inlet, P, h_fuel))
+    shape = np.broadcast_shapes(phi.shape, t_inlet.shape, P.shape, h_fuel.shape)
+    phi, t_inlet, P, h_fuel = (np.broadcast_to(x, shape).ravel() for x in (phi, t_inlet, P, h_fuel))
+    for name, x, unit in (("phi", phi, "-"), ("t_inlet", t_inlet, "K"), ("P", P, "Pa"), ("h_fuel", h_fuel, "J/kg")):
         if np.any(~np.isfinite(x)):
             raise FuelsysInputError(f"{name} must be a finite number [{unit}]")
     if np.any(phi <= 0):
         raise FuelsysInputError(f"equivalence ratio must be > 0 (got {phi[phi <= 0][0]:g})")
-    if np.any(p <= 0):
-        raise FuelsysInputError(f"pressure must be > 0 (got {p[p <= 0][0]:g} Pa)")
-    lo, hi, unit = HARD_LIMITS["t_in"]
-    bad = (t_in < lo) | (t_in > hi)
+    if np.any(P <= 0):
+        raise FuelsysInputError(f"pressure must be > 0 (got {P[P <= 0][0]:g} Pa)")
+    lo, hi, unit = HARD_LIMITS["t_inlet"]
+    bad = (t_inlet < lo) | (t_inlet > hi)
     if np.any(bad):
         raise FuelsysInputError(f"inlet temperature must be within {lo:g}..{hi:g} K, the range of the NASA "
-                                f"polynomials used (got {t_in[bad][0]:g} K)")
-    return phi, t_in, p, h_fuel, shape
+                                f"polynomials used (got {t_inlet[bad][0]:g} K)")
+    return phi, t_inlet, P, h_fuel, shape
 
 
 def _check_phi(phi, fc):
@@ -561,20 +555,20 @@ def _check_phi(phi, fc):
     warn_validity("adiabatic flame temperature", "equivalence ratio", phi, low, high, unit)
 
 
-def _solve(phi, t_in, p, fuel, h_fuel, allowed_rows):
+def _solve(phi, t_inlet, P, fuel, h_fuel, allowed_rows):
     fc = fuel_composition(fuel)
-    phi, t_in, p, h_fuel, shape = _inputs(phi, t_in, p, h_fuel)
+    phi, t_inlet, P, h_fuel, shape = _inputs(phi, t_inlet, P, h_fuel)
     _check_phi(phi, fc)
-    for key, x in (("t_in", t_in), ("p", p)):
-        warn_validity("adiabatic flame temperature", "inlet temperature" if key == "t_in" else "pressure",
+    for key, x in (("t_inlet", t_inlet), ("P", P)):
+        warn_validity("adiabatic flame temperature", "inlet temperature" if key == "t_inlet" else "pressure",
                       x, *VALIDITY[key])
-    b0, h0, far = _reactants(phi, t_in, fc, h_fuel)
+    b0, h0, far = _reactants(phi, t_inlet, fc, h_fuel)
     allowed = allowed_rows(phi)
-    T, nj, ok = _equilibrate_hp(b0, h0, p, allowed)
+    T, nj, ok = _equilibrate_hp(b0, h0, P, allowed)
     if not np.all(ok):
         i = np.flatnonzero(~ok)[0]
         raise FuelsysInputError(
-            f"the equilibrium iteration did not converge at phi {phi[i]:g}, t_in {t_in[i]:g} K, p {p[i]:g} Pa")
+            f"the equilibrium iteration did not converge at phi {phi[i]:g}, t_inlet {t_inlet[i]:g} K, P {P[i]:g} Pa")
     return T, nj, far, shape
 
 
@@ -586,7 +580,7 @@ def _complete_rows(phi):
     return np.where((phi <= 1.0)[:, None], _LEAN_SET, _RICH_SET)
 
 
-def gordon_mcbride_1994(phi, t_in, p, fuel="kerosene", h_fuel=0.0):
+def gordon_mcbride_1994(phi, t_inlet, P, fuel="kerosene", h_fuel=0.0):
     """Adiabatic flame temperature with dissociation: chemical equilibrium at constant h and p.
 
     Gibbs-energy minimisation by element potentials (Gordon & McBride 1994,
@@ -597,9 +591,9 @@ def gordon_mcbride_1994(phi, t_in, p, fuel="kerosene", h_fuel=0.0):
     ----------
     phi : array_like
         Equivalence ratio (fuel/air over stoichiometric fuel/air) [-]
-    t_in : array_like
+    t_inlet : array_like
         Air inlet temperature [K]
-    p : array_like
+    P : array_like
         Pressure [Pa abs]
     fuel : str or Fuel or FuelComposition
         The fuel, see :func:`fuel_composition` [-]
@@ -615,13 +609,13 @@ def gordon_mcbride_1994(phi, t_in, p, fuel="kerosene", h_fuel=0.0):
     Raises
     ------
     FuelsysInputError
-        phi <= 0 or rich enough to form solid carbon, p <= 0, t_in outside
+        phi <= 0 or rich enough to form solid carbon, P <= 0, t_inlet outside
         200..3000 K, or no convergence.
 
     Notes
     -----
     Validity (:data:`VALIDITY`, ValidityWarning outside): phi 0.3-2.0,
-    t_in 250-900 K, p 0.5-20 bar; checked against Cantera (GRI-Mech 3.0
+    t_inlet 250-900 K, P 0.5-20 bar; checked against Cantera (GRI-Mech 3.0
     thermodynamics) in the tests.  Hydrocarbons, soot and minor species
     (HO2, N, N2O, ...) are not in the product set: near phi = 2 at low
     temperatures the true equilibrium holds some methane.
@@ -639,11 +633,11 @@ def gordon_mcbride_1994(phi, t_in, p, fuel="kerosene", h_fuel=0.0):
     >>> round(gordon_mcbride_1994(1.0, 298.15, 101325.0, "C3H8"))
     2264
     """
-    T, _, _, shape = _solve(phi, t_in, p, fuel, h_fuel, _equilibrium_rows)
+    T, _, _, shape = _solve(phi, t_inlet, P, fuel, h_fuel, _equilibrium_rows)
     return _out(T.reshape(shape))
 
 
-def complete_combustion(phi, t_in, p, fuel="kerosene", h_fuel=0.0):
+def complete_combustion(phi, t_inlet, P, fuel="kerosene", h_fuel=0.0):
     """Adiabatic flame temperature without dissociation.
 
     Lean (phi <= 1): products CO2, H2O, O2, N2, Ar, all fuel burned.  Rich:
@@ -655,9 +649,9 @@ def complete_combustion(phi, t_in, p, fuel="kerosene", h_fuel=0.0):
     ----------
     phi : array_like
         Equivalence ratio [-]
-    t_in : array_like
+    t_inlet : array_like
         Air inlet temperature [K]
-    p : array_like
+    P : array_like
         Pressure [Pa abs]
     fuel : str or Fuel or FuelComposition
         The fuel, see :func:`fuel_composition` [-]
@@ -678,7 +672,7 @@ def complete_combustion(phi, t_in, p, fuel="kerosene", h_fuel=0.0):
     >>> complete_combustion(1.0, 298.15, 101325.0, "C3H8") > gordon_mcbride_1994(1.0, 298.15, 101325.0, "C3H8")
     True
     """
-    T, _, _, shape = _solve(phi, t_in, p, fuel, h_fuel, _complete_rows)
+    T, _, _, shape = _solve(phi, t_inlet, P, fuel, h_fuel, _complete_rows)
     return _out(T.reshape(shape))
 
 
@@ -686,16 +680,16 @@ def complete_combustion(phi, t_in, p, fuel="kerosene", h_fuel=0.0):
 FLAME_METHODS = {"equilibrium": gordon_mcbride_1994, "complete": complete_combustion}
 
 
-def adiabatic_flame_temperature(phi, t_in, p, fuel="kerosene", h_fuel=0.0, method="equilibrium"):
+def adiabatic_flame_temperature(phi, t_inlet, P, fuel="kerosene", h_fuel=0.0, method="equilibrium"):
     """Adiabatic flame temperature of a fuel-air mixture by a named method.
 
     Parameters
     ----------
     phi : array_like
         Equivalence ratio [-]
-    t_in : array_like
+    t_inlet : array_like
         Air inlet temperature [K]
-    p : array_like
+    P : array_like
         Pressure [Pa abs]
     fuel : str or Fuel or FuelComposition
         The fuel, see :func:`fuel_composition` [-]
@@ -725,19 +719,19 @@ def adiabatic_flame_temperature(phi, t_in, p, fuel="kerosene", h_fuel=0.0, metho
     except KeyError:
         raise FuelsysInputError(f"flame-temperature method {method!r} unknown; allowed: "
                                 f"{', '.join(FLAME_METHODS)}") from None
-    return fn(phi, t_in, p, fuel, h_fuel)
+    return fn(phi, t_inlet, P, fuel, h_fuel)
 
 
-def equilibrium_products(phi, t_in, p, fuel="kerosene", h_fuel=0.0, method="equilibrium"):
+def equilibrium_products(phi, t_inlet, P, fuel="kerosene", h_fuel=0.0, method="equilibrium"):
     """Flame temperature and product composition.
 
     Parameters
     ----------
     phi : array_like
         Equivalence ratio [-]
-    t_in : array_like
+    t_inlet : array_like
         Air inlet temperature [K]
-    p : array_like
+    P : array_like
         Pressure [Pa abs]
     fuel : str or Fuel or FuelComposition
         The fuel, see :func:`fuel_composition` [-]
@@ -768,7 +762,7 @@ def equilibrium_products(phi, t_in, p, fuel="kerosene", h_fuel=0.0, method="equi
     if method not in FLAME_METHODS:
         raise FuelsysInputError(f"flame-temperature method {method!r} unknown; allowed: {', '.join(FLAME_METHODS)}")
     rows = _equilibrium_rows if method == "equilibrium" else _complete_rows
-    T, nj, far, shape = _solve(phi, t_in, p, fuel, h_fuel, rows)
+    T, nj, far, shape = _solve(phi, t_inlet, P, fuel, h_fuel, rows)
     h = np.sum(nj * species_properties(T)["h"], axis=1)
     x = nj / nj.sum(1, keepdims=True)
     return {"T": _out(T.reshape(shape)), "far": _out(far.reshape(shape)), "h": _out(h.reshape(shape)),

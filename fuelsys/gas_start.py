@@ -60,6 +60,7 @@ from __future__ import annotations
 import numpy as np
 
 from fuelsys import heat
+from fuelsys.constants import G0, P_ATM, R_MOLAR
 from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.arrays import as_float as _out
 from fuelsys.arrays import checked_array as _arr
@@ -75,8 +76,6 @@ FILL_FRACTION = 0.8
 ASPECT = 2.0
 #: Churchill-Chu (1975) vertical-plate correlation: validity as data
 CHURCHILL_CHU_RANGE = {"rayleigh": (1e-1, 1e12)}
-#: gravity [m/s²]
-G0 = 9.80665
 
 
 
@@ -518,7 +517,7 @@ def jet_mass_flow(gas, bore, length, p_up, p_down, T, cd=CD_JET, method="auto"):
         return _out(cd * area * np.asarray(G))
     g = np.asarray(gas.gamma(T, p0c), dtype=float)
     Z = np.asarray(gas.compressibility(T, p0c), dtype=float)
-    R = 8.314462618 / gas.molar_mass
+    R = R_MOLAR / gas.molar_mass
     if np.all(L == 0):
         return _out(cd * area * np.asarray(mass_flux_ideal(p0c, T, np.minimum(pb, p0c), g, R, Z)))
     mu = np.asarray(gas.gas_viscosity(T, p0c), dtype=float)
@@ -641,7 +640,7 @@ def churchill_chu_1975(T_surface, T_air, height):
     mu = np.asarray(heat.sutherland_viscosity_air(Tf))
     k = np.asarray(heat.sutherland_conductivity_air(Tf))
     cp = np.asarray(thermo.cp(Tf))
-    rho = 101325.0 / (thermo.R_AIR * Tf)
+    rho = P_ATM / (thermo.R_AIR * Tf)
     nu = mu / rho
     alpha = k / (rho * cp)
     beta = 1.0 / Tf

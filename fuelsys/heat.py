@@ -23,11 +23,10 @@ from __future__ import annotations
 
 import numpy as np
 
+from fuelsys.constants import SIGMA_SB
 from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.arrays import as_float as _out
 
-#: Stefan-Boltzmann constant [W/(m² K⁴)] (CODATA 2018, exact)
-SIGMA_SB = 5.670374419e-8
 
 #: Reynolds number where laminar flow ends in the Gnielinski (1995) interpolation [-]
 RE_LAMINAR = 2300.0

@@ -53,12 +53,11 @@ from dataclasses import dataclass, field, replace
 
 import numpy as np
 
+from fuelsys.constants import G0
 from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.arrays import as_float as _out
 from fuelsys.arrays import checked_array as _arr
 
-#: standard gravity [m/s²] (CGPM 1901)
-G0 = 9.80665
 #: fewest test points a pump fit accepts
 MIN_POINTS = 4
 #: condition number of the column-scaled Jacobian above which a fit is refused

@@ -39,13 +39,10 @@ from __future__ import annotations
 
 import numpy as np
 
+from fuelsys.constants import R_MOLAR, T_REF
 from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.arrays import as_float as _out
 
-#: molar gas constant [J/(mol K)] (CODATA 2018, exact)
-R_MOLAR = 8.314462618
-#: reference temperature of enthalpies of formation and heating values [K]
-T_REF = 298.15
 
 #: atomic weights [kg/mol] (IUPAC conventional values)
 ATOMIC_MASS = {"C": 12.011e-3, "H": 1.008e-3, "O": 15.999e-3, "N": 14.007e-3, "Ar": 39.948e-3}
@@ -647,16 +644,16 @@ def _cp_quiet(T, far, h_to_c):
     return _mix(R_MOLAR * _cp_r(T) / _MM.reshape(5, *([1] * T.ndim)), Y)
 
 
-def isentropic_temperature(T1, pressure_ratio, far=0.0, h_to_c=2.0):
+def isentropic_temperature(t_inlet, pressure_ratio, far=0.0, h_to_c=2.0):
     """Temperature after an isentropic compression or expansion of an ideal-gas mixture.
 
-    Solves s°(T2) - s°(T1) = R ln(p2/p1) with the polynomial entropy
+    Solves s°(T2) - s°(t_inlet) = R ln(p2/p1) with the polynomial entropy
     (variable specific heats), Newton iteration vectorised.
 
     Parameters
     ----------
-    T1 : array_like
-        Start temperature [K]
+    t_inlet : array_like
+        Temperature before the compression or expansion [K]
     pressure_ratio : array_like
         p2/p1 [-]
     far : array_like
@@ -679,20 +676,20 @@ def isentropic_temperature(T1, pressure_ratio, far=0.0, h_to_c=2.0):
     >>> round(isentropic_temperature(288.15, 3.0), 1)
     394.0
     """
-    T1 = _temperature(T1, "start temperature")
+    t_inlet = _temperature(t_inlet, "start temperature")
     pr = np.asarray(pressure_ratio, dtype=float)
     if np.any(~np.isfinite(pr)) or np.any(pr <= 0):
         raise FuelsysInputError(f"pressure ratio must be > 0 (got {np.ravel(pr)[0]})")
     far = np.asarray(far, dtype=float)
     Y = mass_fractions(far, h_to_c)
     R = np.asarray(gas_constant(far, h_to_c))
-    shape = np.broadcast(T1, pr, far, np.asarray(h_to_c)).shape
+    shape = np.broadcast(t_inlet, pr, far, np.asarray(h_to_c)).shape
 
     def s_mix(T):
         return _mix(R_MOLAR * _s_r(T) / _MM.reshape(5, *([1] * T.ndim)), Y)
 
-    target = s_mix(T1) + R * np.log(pr)
-    T = np.broadcast_to(T1 * pr ** (0.2857), shape).astype(float)
+    target = s_mix(t_inlet) + R * np.log(pr)
+    T = np.broadcast_to(t_inlet * pr ** (0.2857), shape).astype(float)
     for _ in range(50):
         f = s_mix(T) - target
         step = f / (_mix(R_MOLAR * _cp_r(T) / _MM.reshape(5, *([1] * T.ndim)), Y) / T)

@@ -7,7 +7,7 @@ import pytest
 
 from fuelsys import engine, equilibrium as eq, thermo
 from fuelsys.errors import FuelsysInputError, ValidityWarning
-from fuelsys.fuels import get_fuel
+from fuelsys.fuels import fuel_h_to_c, get_fuel
 
 PHIS = (0.6, 0.8, 1.0, 1.2)
 # 1 bar and 298 K; and a preheated, pressurised primary zone typical of a small turbojet at full
@@ -160,7 +160,7 @@ def test_kerosene_fuel_model_against_cantera(phi, T, p, ct, gri30):
     of the same elements, the enthalpy built from GRI-Mech 3.0's own CO2, H2O and O2 and the heating value."""
     gas = gri30
     k = get_fuel("kerosene")
-    y = engine.fuel_h_to_c(k)
+    y = fuel_h_to_c(k)
     far = phi * k.stoich_far
     m_unit = thermo.ATOMIC_MASS["C"] + y * thermo.ATOMIC_MASS["H"]
     # fuel enthalpy per kg from its heating value and Cantera's product enthalpies at 298.15 K
@@ -207,7 +207,7 @@ def test_pressure_suppresses_dissociation():
 def test_complete_combustion_matches_the_engine_energy_balance():
     """Lean complete-combustion temperature put into fuelsys.engine's fuel demand gives phi back."""
     k = get_fuel("kerosene")
-    y = engine.fuel_h_to_c(k)
+    y = fuel_h_to_c(k)
     phi = np.array([0.3, 0.5, 0.8, 1.0])
     t_in = 430.0
     T = eq.complete_combustion(phi, t_in, 2e5, k)

@@ -13,7 +13,7 @@ import pytest
 from fuelsys import heat, thermo
 from fuelsys import vaporiser as vap
 from fuelsys.errors import FuelsysInputError, ValidityWarning
-from fuelsys.fuels import get_fuel
+from fuelsys.fuels import fuel_h_to_c, get_fuel
 
 ht = pytest.importorskip("ht")
 
@@ -379,7 +379,7 @@ def test_trade_facts_of_the_engine_class(kero):
     from fuelsys import engine
 
     t3, t4, p3, m_engine, n_tubes = 473.15, 1123.15, 2.5e5, 0.25, 8
-    far = engine.fuel_air_ratio_energy_balance(t3, t4, kero.lhv, engine.fuel_h_to_c(kero))
+    far = engine.fuel_air_ratio_energy_balance(t3, t4, kero.lhv, fuel_h_to_c(kero))
     assert 0.012 < far < 0.022  # overall mixture lean, phi about a quarter
     m_tube = vap.tube_air_flow(BORE, 0.03, p3, t3)
     share = n_tubes * m_tube / m_engine

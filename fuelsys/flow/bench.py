@@ -32,7 +32,7 @@ import numpy as np
 from fuelsys.errors import FuelsysError, FuelsysInputError
 from fuelsys.flow import fittings
 from fuelsys.flow import friction as fr
-from fuelsys.flow._solve import chandrupatla, expand_bracket
+from fuelsys.roots import chandrupatla, expand_bracket
 from fuelsys.flow.needle import (P_MAX, _check_pmax, _check_positive, _check_roughness, _flag_validity, _k_total,
                                  _out, liquid_properties)
 

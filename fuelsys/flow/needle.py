@@ -57,7 +57,7 @@ import numpy as np
 from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.flow import fittings
 from fuelsys.flow import friction as fr
-from fuelsys.flow._solve import expand_bracket, newton_bracketed
+from fuelsys.roots import expand_bracket, newton_bracketed
 from fuelsys.arrays import as_float as _out
 
 #: highest pressure difference the needle functions accept by default [Pa] (20 bar)

@@ -32,13 +32,13 @@ import functools
 import os
 
 from fuelsys.errors import FuelsysInputError
-from fuelsys.fuels.base import Fuel
+from fuelsys.fuels.base import Fuel, fuel_h_to_c
 from fuelsys.fuels.petroleum import PetroleumFuel
 
 #: built-in liquid fuels and oils of this package (the CoolProp gases are added by ``FUEL_NAMES``)
 LIQUID_FUEL_NAMES = ("kerosene", "turbine-oil")
 
-__all__ = ["get_fuel", "FUEL_NAMES", "LIQUID_FUEL_NAMES", "PetroleumFuel", "Fuel", "known_fuel_names"]
+__all__ = ["get_fuel", "FUEL_NAMES", "LIQUID_FUEL_NAMES", "PetroleumFuel", "Fuel", "known_fuel_names", "fuel_h_to_c"]
 
 
 def _gas_names() -> tuple:

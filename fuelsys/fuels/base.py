@@ -19,12 +19,10 @@ from __future__ import annotations
 import numpy as np
 
 from fuelsys.arrays import as_float  # noqa: F401 -- part of this module's interface
+from fuelsys import thermo as _thermo
+from fuelsys.constants import P_ATM, T0_C  # noqa: F401 -- part of this module's interface
 from fuelsys.errors import FuelsysInputError
 
-#: kelvin offset of the Celsius scale
-T0_C = 273.15
-#: standard atmosphere [Pa]
-P_ATM = 101325.0
 
 
 class Fuel:
@@ -154,3 +152,33 @@ class Fuel:
     def info(self) -> list[tuple[str, object, str]]:
         """Rows (label, value, unit) describing the fuel, for FS_FUEL_INFO."""
         return [("name", self.name, ""), ("kind", self.kind, "")]
+
+
+def fuel_h_to_c(fuel):
+    """Molar H/C ratio of a :class:`fuelsys.fuels.base.Fuel` (its own, else from its stoichiometric ratio).
+
+    Parameters
+    ----------
+    fuel : Fuel
+        A fuel object with ``stoich_far`` (or ``h_to_c``) [-]
+
+    Returns
+    -------
+    float
+        H/C ratio [-]
+
+    References
+    ----------
+    :func:`fuelsys.thermo.hydrogen_carbon_ratio` (the H/C ratio of a C-H fuel from its stoichiometric
+    fuel/air ratio).
+
+    Examples
+    --------
+    >>> class K: stoich_far = 0.068
+    >>> round(fuel_h_to_c(K()), 2)
+    1.94
+    """
+    y = getattr(fuel, "h_to_c", None)
+    if y is not None and np.isfinite(y):
+        return float(y)
+    return float(_thermo.hydrogen_carbon_ratio(float(fuel.stoich_far)))

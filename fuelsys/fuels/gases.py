@@ -151,15 +151,16 @@ import numpy as np
 
 from fuelsys import thermo as _thermo
 
+from fuelsys.constants import R_MOLAR as R_GAS
+from fuelsys.constants import T_REF  # liquid (or, for air, gas) at 25 °C has h = 0
 from fuelsys.errors import FuelsysInputError, warn_validity
+from fuelsys.roots import chandrupatla
 from fuelsys.fuels.base import P_ATM, T0_C, Fuel, as_float
 
 # ---------------------------------------------------------------------------
 # data
 # ---------------------------------------------------------------------------
 
-#: molar gas constant [J/(mol·K)] (CODATA 2018, exact)
-R_GAS = 8.314462618
 #: standard enthalpy of formation of CO2 gas at 298.15 K [J/mol] (CODATA Key Values 1989)
 HF_CO2 = -393.51e3
 #: standard enthalpy of formation of H2O gas at 298.15 K [J/mol] (CODATA Key Values 1989)
@@ -168,8 +169,6 @@ HF_H2O_GAS = -241.826e3
 #: (CIPM-2007 composition, see fuelsys.thermo), so stoichiometric ratios agree across modules
 X_O2_AIR = _thermo.AIR_MOLE_FRACTION["O2"]
 M_AIR = _thermo.M_AIR
-#: enthalpy reference temperature [K]: liquid (or, for air, gas) at 25 °C has h = 0
-T_REF = 298.15
 #: fraction of the critical temperature up to which liquid properties are given
 TC_MARGIN = 0.99
 #: upper end of the ideal-gas / virial table [K]
@@ -438,44 +437,6 @@ class _PureTables:
 @functools.lru_cache(maxsize=None)
 def _tables(key: str) -> _PureTables:
     return _PureTables(key)
-
-
-# ---------------------------------------------------------------------------
-# vectorised root finding
-# ---------------------------------------------------------------------------
-
-def _illinois(func, a, b, fa, fb, xtol=1e-14, maxiter=200):
-    """Vectorised Illinois (modified regula falsi) root of ``func`` between ``a`` and ``b``.
-
-    ``fa`` and ``fb`` must have opposite signs (or one be zero) at every
-    element; ``func`` maps an array of abscissae (same shape) to values.
-    Converged elements are carried along unchanged.
-
-    References
-    ----------
-    Dowell, M., Jarratt, P. (1971). A modified regula falsi method for
-    computing the root of an equation. BIT 11, 168-174.
-    """
-    a, b, fa, fb = (np.array(v, dtype=float) for v in (a, b, fa, fb))
-    side = np.zeros(a.shape, dtype=int)
-    for _ in range(maxiter):
-        active = (fa != 0) & (fb != 0) & (np.abs(b - a) > xtol * np.maximum(np.abs(a), np.abs(b)))
-        if not np.any(active):
-            break
-        x = np.where(active, (a * fb - b * fa) / np.where(active, fb - fa, 1.0), a)
-        fx = func(x)
-        keep_b = active & (np.sign(fx) == np.sign(fa))   # root between x and b: a <- x
-        keep_a = active & ~keep_b                        # root between a and x: b <- x
-        fb = np.where(keep_b & (side == 1), 0.5 * fb, fb)
-        fa = np.where(keep_a & (side == -1), 0.5 * fa, fa)
-        a = np.where(keep_b, x, a)
-        fa = np.where(keep_b, fx, fa)
-        b = np.where(keep_a, x, b)
-        fb = np.where(keep_a, fx, fb)
-        side = np.where(keep_b, 1, np.where(keep_a, -1, side))
-    den = np.where(fb != fa, fb - fa, 1.0)
-    x = np.where(fa == 0, a, np.where(fb == 0, b, (a * fb - b * fa) / den))
-    return np.clip(x, np.minimum(a, b), np.maximum(a, b))
 
 
 # ---------------------------------------------------------------------------
@@ -1264,7 +1225,7 @@ class CoolPropFluid(Fuel):
             raise FuelsysInputError(
                 f"no {what} of {self.name} within {lo - T0_C:.1f}..{hi - T0_C:.1f} °C at "
                 f"{Pf[i] / 1e5:.6g} bar abs")
-        x = _illinois(lambda xx: func(1.0 / xx, Pf), a, b, fa, fb)
+        x = chandrupatla(lambda xx: func(1.0 / xx, Pf), a, b, fa, fb, xtol=1e-17)
         return (1.0 / x).reshape(shape)
 
     def _p_limits(self, fn):
@@ -1291,7 +1252,7 @@ class CoolPropFluid(Fuel):
 
         References
         ----------
-        As :meth:`vapour_pressure` (inverted by the Illinois method).
+        As :meth:`vapour_pressure` (inverted by Chandrupatla's method).
 
         Examples
         --------
@@ -1411,7 +1372,7 @@ class CoolPropFluid(Fuel):
             hi = np.ones_like(za)
             glo = np.where(allgas, 1.0, g(lo))
             ghi = np.where(allgas, -1.0, g1)
-            psi = _illinois(g, lo, hi, glo, ghi)
+            psi = chandrupatla(g, lo, hi, glo, ghi, xtol=1e-15)
             psi = np.where(allgas, 1.0, psi)
         return np.clip(psi, za, 1.0), z, invK, za
 

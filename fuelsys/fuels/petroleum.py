@@ -51,14 +51,14 @@ import numpy as np
 
 from fuelsys import thermo as _thermo
 
+from fuelsys.constants import R_MOLAR as R_GAS
+from fuelsys.constants import T_REF
 from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.fuels.base import P_ATM, T0_C, Fuel, as_float
 
 # ---------------------------------------------------------------------------
 # constants and unit factors
 # ---------------------------------------------------------------------------
-#: molar gas constant [J/(mol K)] (CODATA 2018)
-R_GAS = 8.314462618
 #: molar mass of dry air [kg/mol] and its O2 mole fraction [-]: the one dry air of fuelsys
 #: (CIPM-2007 composition, see fuelsys.thermo), so stoichiometric ratios agree across modules
 M_AIR = _thermo.M_AIR
@@ -74,8 +74,6 @@ RHO_WATER_60F = 999.016
 RHO_WATER_15C = 999.10
 #: 60 °F in kelvin
 T_60F = 288.7056
-#: reference temperature of enthalpies [K]
-T_REF = 298.15
 #: latent heat of water at 25 °C [J/kg] (for HHV <-> LHV)
 HVAP_WATER_25C = 2.4423e6
 

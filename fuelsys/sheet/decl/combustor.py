@@ -115,7 +115,7 @@ def fs_zone_phi(fuel_flow, air, zone_fraction, fuel):
     return combustor.zone_equivalence_ratio(fuel_flow, air, zone_fraction, fuel.stoich_far)
 
 
-_T_LO_C, _T_HI_C = (from_si(t, "°C") for t in HARD_LIMITS["t_in"][:2])  # the equilibrium solver's hard limits
+_T_LO_C, _T_HI_C = (from_si(t, "°C") for t in HARD_LIMITS["t_inlet"][:2])  # the equilibrium solver's hard limits
 _PHI_LO, _PHI_HI = VALIDITY["phi"][:2]
 
 
@@ -165,6 +165,6 @@ def fs_flame_temp(fuel, phi, T_in, p, method):
 )
 def fs_mix_temp(T_hot, hot, T_cold, cold, hot_far, fuel):
     from fuelsys import combustor
-    from fuelsys.engine import fuel_h_to_c
+    from fuelsys.fuels import fuel_h_to_c
 
     return combustor.mix_temperature(T_hot, hot, T_cold, cold, far_hot=hot_far, h_to_c=fuel_h_to_c(fuel))

@@ -11,6 +11,7 @@ from __future__ import annotations
 import numpy as np
 
 from fuelsys.errors import FuelsysInputError
+from fuelsys.fuels import fuel_h_to_c
 from fuelsys.sheet.catalogue import Arg, Returns, from_si, spreadsheet_function
 from fuelsys.sheet.decl import checked_temperature
 
@@ -76,7 +77,7 @@ def fs_fuel_demand(air, T3, T4, fuel, efficiency):
     if not np.isfinite(lhv) or lhv <= 0:
         raise FuelsysInputError(f"fuel: {fuel.name} has no heating value")
     try:
-        y = engine.fuel_h_to_c(fuel)
+        y = fuel_h_to_c(fuel)
     except FuelsysInputError as exc:
         raise FuelsysInputError(f"fuel: {exc}") from None
     return engine.fuel_flow(air, T3, T4, lhv, y, efficiency)

@@ -1,4 +1,4 @@
-"""Vectorised, bracketed root finders for increasing functions (internal).
+"""Vectorised, bracketed root finders, the one root-finding module of fuelsys (ground floor).
 
 Both solvers work on 1-D arrays of independent problems at once (no Python
 loop over the points) and keep a bracket ``lo < root < hi`` for every point,
