@@ -18,6 +18,7 @@ from __future__ import annotations
 
 import importlib
 import inspect
+import pathlib
 import pkgutil
 import re
 
@@ -189,3 +190,64 @@ def test_the_parser_reads_numpydoc():
 
     f.__doc__ = doc
     assert unit_problems(f) == ["parameter **kw does not end with its unit in brackets: 'Options, no unit.'"]
+
+
+# -- nomenclature -----------------------------------------------------------------------------------
+NOMENCLATURE = pathlib.Path(__file__).resolve().parents[1] / "docs" / "nomenclature.md"
+
+
+def read_nomenclature():
+    """``(names, drifts)`` from docs/nomenclature.md: ``{name: set of units}`` from the tables above
+    "Names still to rename", and ``{name in the code: the page's name}`` from that last table."""
+    names, drifts, in_drift = {}, {}, False
+    for line in NOMENCLATURE.read_text(encoding="utf-8").splitlines():
+        if line.startswith("## "):
+            in_drift = line.strip() == "## Names still to rename"
+        m = re.match(r"\|\s*`([^`]+)`\s*\|([^|]*)\|([^|]*)\|\s*$", line)
+        if not m:
+            continue
+        if in_drift:
+            drifts[m.group(1)] = m.group(2).strip()
+        else:
+            names[m.group(1)] = {u.strip() for u in re.split(r"\s+or\s+", m.group(3)) if u.strip()}
+    return names, drifts
+
+
+def _unit_of(text: str) -> str:
+    units = re.findall(r"\[([^\]]+)\]", text or "")
+    return units[-1].replace("·", " ").strip() if units else ""
+
+
+def nomenclature_findings():
+    """``(unknown, wrong_unit, drift_seen)`` over the public signatures of the core."""
+    names, drifts = read_nomenclature()
+    unknown, wrong_unit, drift_seen = [], [], set()
+    for qualname, fn in sorted(FUNCS.items()):
+        documented = parameter_descriptions(fn.__doc__ or "") or {}
+        for p in inspect.signature(fn).parameters.values():
+            unit = _unit_of(documented.get(p.name, documented.get("**" + p.name, "")))
+            if p.name in names and (unit in names[p.name] or p.kind is p.VAR_KEYWORD):
+                continue
+            if p.name in drifts:
+                drift_seen.add(p.name)
+            elif p.name not in names:
+                unknown.append(f"{qualname}: {p.name}")
+            else:
+                wrong_unit.append(f"{qualname}: {p.name} [{unit}], the page says {sorted(names[p.name])}")
+    return unknown, wrong_unit, drift_seen
+
+
+def test_every_public_parameter_is_named_as_the_nomenclature_says():
+    """docs/nomenclature.md names every parameter of the core API with its unit (pvlib's manner)."""
+    unknown, wrong_unit, _ = nomenclature_findings()
+    assert not unknown, "parameters missing from docs/nomenclature.md: " + "; ".join(unknown)
+    assert not wrong_unit, "parameters whose unit differs from docs/nomenclature.md: " + "; ".join(wrong_unit)
+
+
+def test_the_names_still_to_rename_are_still_there():
+    """The page's list of drifting names holds only names still in the code (it can only shrink)."""
+    _, drifts = read_nomenclature()
+    _, _, seen = nomenclature_findings()
+    assert drifts, "the page has no 'Names still to rename' table"
+    gone = sorted(set(drifts) - seen)
+    assert not gone, f"renamed already: remove from docs/nomenclature.md's last table: {gone}"
