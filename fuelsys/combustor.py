@@ -1,5 +1,7 @@
 """Combustor liner: air split by zone, zone mixtures and temperatures.
 
+Floor: the engine's parts (uses equilibrium and thermo).
+
 The liner is a set of openings -- vaporiser-tube inlets, primary, secondary
 and dilution holes, cooling holes -- each row a hole count, a diameter and a
 discharge coefficient.  Every opening sees the same liner pressure drop (the
@@ -73,6 +75,7 @@ import numpy as np
 from fuelsys import equilibrium, thermo
 from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.arrays import as_float as _out
+from fuelsys.arrays import checked_array
 
 #: liner zones an opening can belong to
 ZONES = ("vaporiser", "primary", "secondary", "dilution", "cooling")
@@ -103,18 +106,6 @@ PRIMARY_SHARE_USUAL = (0.15, 0.30)
 #: from memory)
 LINER_DP_USUAL = (0.02, 0.08)
 
-
-
-def _finite(x, name, unit, positive=True, allow_zero=False):
-    a = np.asarray(x, dtype=float)
-    if np.any(~np.isfinite(a)):
-        raise FuelsysInputError(f"{name} must be a finite number [{unit}]")
-    if positive:
-        bad = (a < 0) if allow_zero else (a <= 0)
-        if np.any(bad):
-            op = ">= 0" if allow_zero else "> 0"
-            raise FuelsysInputError(f"{name} must be {op} (got {np.ravel(a[bad])[0]:g} {unit})")
-    return a
 
 
 # -- discharge coefficient -------------------------------------------------------------
@@ -161,11 +152,11 @@ def kaddah_1964(K, alpha=0.0, plunged=False):
     >>> round(kaddah_1964(5.0, 0.3), 3)
     0.541
     """
-    K = _finite(K, "K (hole pressure-drop parameter)", "-")
+    K = checked_array(K, "K (hole pressure-drop parameter)", "-", positive=True)
     if np.any(K <= 1):
         raise FuelsysInputError(f"K must be > 1: the hole's total pressure drop over the annulus dynamic "
                                 f"pressure (got {np.ravel(K[K <= 1])[0]:g})")
-    a = _finite(alpha, "bleed ratio alpha", "-", allow_zero=True)
+    a = checked_array(alpha, "bleed ratio alpha", "-", nonneg=True)
     if np.any(a > 1):
         raise FuelsysInputError(f"bleed ratio alpha must be within 0..1 (got {np.max(a):g})")
     v = VALIDITY["kaddah_1964"]
@@ -208,7 +199,7 @@ def effective_area(count, diameter, cd=CD_PLAIN_HOLE):
     >>> round(effective_area(8, 4e-3) * 1e6, 2)
     62.83
     """
-    n = _finite(count, "hole count", "-", allow_zero=True)
+    n = checked_array(count, "hole count", "-", nonneg=True)
     if np.any(n != np.round(n)):
         raise FuelsysInputError(f"hole count must be a whole number (got {np.ravel(n[n != np.round(n)])[0]:g})")
     d = np.asarray(diameter, dtype=float)
@@ -386,8 +377,8 @@ class Liner:
 
 # -- liner flow -----------------------------------------------------------------------------
 def _density(case_pressure, t3):
-    p = _finite(case_pressure, "case pressure", "Pa")
-    T = _finite(t3, "case air temperature", "K")
+    p = checked_array(case_pressure, "case pressure", "Pa", positive=True)
+    T = checked_array(t3, "case air temperature", "K", positive=True)
     return p / (thermo.R_AIR * T), p
 
 
@@ -419,9 +410,9 @@ def liner_air_flow(area_eff, liner_dp, case_pressure, t3):
     >>> round(liner_air_flow(7e-4, 1.0e4, 2.6e5, 415.0), 4)
     0.1463
     """
-    a = _finite(area_eff, "effective area", "m²")
+    a = checked_array(area_eff, "effective area", "m²", positive=True)
     rho, p = _density(case_pressure, t3)
-    dp = _finite(liner_dp, "liner pressure drop", "Pa")
+    dp = checked_array(liner_dp, "liner pressure drop", "Pa", positive=True)
     if np.any(dp >= p):
         raise FuelsysInputError("liner pressure drop must be below the case pressure")
     warn_validity("incompressible liner flow", "liner pressure drop fraction", dp / p,
@@ -457,8 +448,8 @@ def liner_pressure_drop(air_flow, area_eff, case_pressure, t3):
     >>> round(liner_pressure_drop(0.1463, 7e-4, 2.6e5, 415.0))
     10007
     """
-    m = _finite(air_flow, "air flow", "kg/s", allow_zero=True)
-    a = _finite(area_eff, "effective area", "m²")
+    m = checked_array(air_flow, "air flow", "kg/s", nonneg=True)
+    a = checked_array(area_eff, "effective area", "m²", positive=True)
     rho, p = _density(case_pressure, t3)
     dp = (m / a) ** 2 / (2.0 * rho)
     if np.any(dp >= p):
@@ -499,7 +490,7 @@ def jet_velocity(liner_dp, case_pressure, t3):
     95.7
     """
     rho, _ = _density(case_pressure, t3)
-    dp = _finite(liner_dp, "liner pressure drop", "Pa", allow_zero=True)
+    dp = checked_array(liner_dp, "liner pressure drop", "Pa", nonneg=True)
     return _out(np.sqrt(2.0 * dp / rho))
 
 
@@ -532,12 +523,12 @@ def zone_equivalence_ratio(fuel_flow, air_flow, zone_fraction, stoich_far):
     >>> round(zone_equivalence_ratio(0.0028, 0.15, 0.2, 0.0683), 3)
     1.367
     """
-    mf = _finite(fuel_flow, "fuel flow", "kg/s", allow_zero=True)
-    ma = _finite(air_flow, "air flow", "kg/s")
-    z = _finite(zone_fraction, "zone air fraction", "-")
+    mf = checked_array(fuel_flow, "fuel flow", "kg/s", nonneg=True)
+    ma = checked_array(air_flow, "air flow", "kg/s", positive=True)
+    z = checked_array(zone_fraction, "zone air fraction", "-", positive=True)
     if np.any(z > 1):
         raise FuelsysInputError(f"zone air fraction must be within 0..1 (got {np.max(z):g})")
-    fs = _finite(stoich_far, "stoichiometric fuel/air ratio", "kg/kg")
+    fs = checked_array(stoich_far, "stoichiometric fuel/air ratio", "kg/kg", positive=True)
     return _out(mf / (ma * z) / fs)
 
 
@@ -581,13 +572,13 @@ def burnout_temperature(t_air, far, lhv, h_to_c, efficiency=1.0, h_fuel=0.0):
     >>> round(burnout_temperature(450.0, 0.0144, 43.0e6, 1.94), 1)
     999.3
     """
-    t = _finite(t_air, "air temperature", "K")
-    f = _finite(far, "fuel/air ratio", "kg/kg", allow_zero=True)
-    q = _finite(lhv, "lower heating value", "J/kg")
-    eta = _finite(efficiency, "combustion efficiency", "-")
+    t = checked_array(t_air, "air temperature", "K", positive=True)
+    f = checked_array(far, "fuel/air ratio", "kg/kg", nonneg=True)
+    q = checked_array(lhv, "lower heating value", "J/kg", positive=True)
+    eta = checked_array(efficiency, "combustion efficiency", "-", positive=True)
     if np.any(eta > 1):
         raise FuelsysInputError(f"combustion efficiency must be within 0..1 (got {np.max(eta):g})")
-    hf = _finite(h_fuel, "fuel enthalpy", "J/kg", positive=False)
+    hf = checked_array(h_fuel, "fuel enthalpy", "J/kg")
     fb = eta * f
     h = (np.asarray(thermo.enthalpy(t)) + fb * (q + hf)) / (1.0 + fb)
     return thermo.temperature_from_enthalpy(h, fb, h_to_c, t_guess=1200.0)
@@ -635,14 +626,14 @@ def mix_temperature(t_hot, m_hot, t_cold, m_cold, far_hot=0.0, far_cold=0.0, h_t
     >>> 450.0 < mix_temperature(2200.0, 1.0, 450.0, 3.0, far_hot=0.06) < 1325.0
     True
     """
-    th = _finite(t_hot, "hot-stream temperature", "K")
-    tc = _finite(t_cold, "cold-stream temperature", "K")
-    mh = _finite(m_hot, "hot-stream flow", "kg/s", allow_zero=True)
-    mc = _finite(m_cold, "cold-stream flow", "kg/s", allow_zero=True)
+    th = checked_array(t_hot, "hot-stream temperature", "K", positive=True)
+    tc = checked_array(t_cold, "cold-stream temperature", "K", positive=True)
+    mh = checked_array(m_hot, "hot-stream flow", "kg/s", nonneg=True)
+    mc = checked_array(m_cold, "cold-stream flow", "kg/s", nonneg=True)
     if np.any(mh + mc <= 0):
         raise FuelsysInputError("the two streams have no flow between them: give a flow > 0")
-    fh = _finite(far_hot, "hot-stream fuel/air ratio", "kg/kg", allow_zero=True)
-    fc = _finite(far_cold, "cold-stream fuel/air ratio", "kg/kg", allow_zero=True)
+    fh = checked_array(far_hot, "hot-stream fuel/air ratio", "kg/kg", nonneg=True)
+    fc = checked_array(far_cold, "cold-stream fuel/air ratio", "kg/kg", nonneg=True)
     ah, ac = mh / (1.0 + fh), mc / (1.0 + fc)
     fm = (ah * fh + ac * fc) / (ah + ac)
     H = mh * np.asarray(thermo.enthalpy(th, fh, h_to_c)) + mc * np.asarray(thermo.enthalpy(tc, fc, h_to_c))
@@ -775,22 +766,22 @@ def combustor(liner, fuel_flow, t3, p3, fuel="kerosene", *, air_flow=None, liner
         raise FuelsysInputError("give exactly one of air_flow [kg/s] and liner_dp [Pa]")
     fc = equilibrium.fuel_composition(fuel)
     y = fc.atoms[1] / fc.atoms[0]
-    mf = _finite(fuel_flow, "fuel flow", "kg/s", allow_zero=True)
-    T3 = _finite(t3, "t3 (case air temperature)", "K")
-    P3 = _finite(p3, "p3 (case pressure)", "Pa")
-    eta = _finite(efficiency, "combustion efficiency", "-")
+    mf = checked_array(fuel_flow, "fuel flow", "kg/s", nonneg=True)
+    T3 = checked_array(t3, "t3 (case air temperature)", "K", positive=True)
+    P3 = checked_array(p3, "p3 (case pressure)", "Pa", positive=True)
+    eta = checked_array(efficiency, "combustion efficiency", "-", positive=True)
     if np.any(eta > 1):
         raise FuelsysInputError(f"combustion efficiency must be within 0..1 (got {np.max(eta):g})")
-    hf = _finite(h_fuel, "fuel enthalpy", "J/kg", positive=False)
+    hf = checked_array(h_fuel, "fuel enthalpy", "J/kg")
     if liner.stage_fractions()["primary"] <= 0:
         raise FuelsysInputError("the liner has no primary-zone openings (vaporiser tubes or primary holes): "
                                 "the fuel has no air to burn with")
     a_eff = liner.effective_area
     if air_flow is not None:
-        ma = _finite(air_flow, "air flow", "kg/s")
+        ma = checked_array(air_flow, "air flow", "kg/s", positive=True)
         dp = np.asarray(liner_pressure_drop(ma, a_eff, P3, T3))
     else:
-        dp = _finite(liner_dp, "liner pressure drop", "Pa")
+        dp = checked_array(liner_dp, "liner pressure drop", "Pa", positive=True)
         ma = np.asarray(liner_air_flow(a_eff, dp, P3, T3))
     shape = np.broadcast_shapes(mf.shape, T3.shape, P3.shape, ma.shape, dp.shape, eta.shape, hf.shape)
     mf, T3, P3, ma, dp, eta, hf = (np.broadcast_to(x, shape).astype(float)

@@ -1,5 +1,7 @@
 """Engine operating points from idle to full speed: case pressure, air flow, fuel demand.
 
+Floor: the engine's parts (uses thermo and the ground floor).
+
 The builder gives a design point (full speed, its pressure ratio, air flow,
 turbine-inlet temperature, optionally thrust) and, where measured, a table of
 speed, case pressure, air flow, exit temperatures and thrust.  A measured
@@ -51,15 +53,7 @@ from fuelsys import thermo
 from fuelsys.constants import P_ISA, T_ISA
 from fuelsys.errors import FuelsysInputError, require, warn_validity
 from fuelsys.arrays import as_float as _out
-
-
-def _finite(x, name, unit, positive=True):
-    a = np.asarray(x, dtype=float)
-    if np.any(~np.isfinite(a)):
-        raise FuelsysInputError(f"{name} must be a finite number [{unit}]")
-    if positive and np.any(a <= 0):
-        raise FuelsysInputError(f"{name} must be > 0 (got {np.ravel(a[a <= 0])[0]:g} {unit})")
-    return a
+from fuelsys.arrays import checked_array
 
 
 # -- pressure ratio over speed ------------------------------------------------
@@ -98,11 +92,11 @@ def pressure_ratio_euler(speed_fraction, pr_design, t_inlet=T_ISA):
     >>> round(pressure_ratio_euler(0.5, 3.0), 3)
     1.361
     """
-    n = _finite(speed_fraction, "speed fraction", "-", positive=False)
+    n = checked_array(speed_fraction, "speed fraction", "-")
     require(n >= 0, "speed fraction must be >= 0")
-    pr = _finite(pr_design, "design pressure ratio", "-")
+    pr = checked_array(pr_design, "design pressure ratio", "-", positive=True)
     require(pr >= 1, f"design pressure ratio must be >= 1 (got {np.min(pr):g})")
-    t1 = _finite(t_inlet, "inlet temperature", "K")
+    t1 = checked_array(t_inlet, "inlet temperature", "K", positive=True)
     h1 = np.asarray(thermo.enthalpy(t1))
     t2s_design = np.asarray(thermo.isentropic_temperature(t1, pr))
     dh_design = np.asarray(thermo.enthalpy(t2s_design)) - h1
@@ -150,9 +144,9 @@ def pressure_ratio_rise_n_squared(speed_fraction, pr_design, t_inlet=T_ISA):
     >>> pressure_ratio_rise_n_squared(0.5, 3.0)
     1.5
     """
-    n = _finite(speed_fraction, "speed fraction", "-", positive=False)
+    n = checked_array(speed_fraction, "speed fraction", "-")
     require(n >= 0, "speed fraction must be >= 0")
-    pr = _finite(pr_design, "design pressure ratio", "-")
+    pr = checked_array(pr_design, "design pressure ratio", "-", positive=True)
     require(pr >= 1, f"design pressure ratio must be >= 1 (got {np.min(pr):g})")
     return _out(1.0 + (pr - 1.0) * n**2)
 
@@ -236,7 +230,7 @@ def case_pressure(speed_fraction, pr_design, p_ambient=P_ISA, t_inlet=T_ISA, met
     >>> round(case_pressure(1.0, 2.5) / 1e5, 3)
     1.52
     """
-    pa = _finite(p_ambient, "ambient pressure", "Pa")
+    pa = checked_array(p_ambient, "ambient pressure", "Pa", positive=True)
     # the similarity law scales from the design point; above design speed it extrapolates
     warn_validity("compressor similarity law", "speed / design speed", speed_fraction, 0.0, OVERSPEED_LIMIT, "-")
     return _out(pa * (np.asarray(pressure_ratio(speed_fraction, pr_design, t_inlet, method)) - 1.0))
@@ -270,10 +264,10 @@ def air_flow_proportional_to_speed(speed_fraction, air_flow_design, density_rati
     >>> air_flow_proportional_to_speed(0.5, 0.2)
     0.1
     """
-    n = _finite(speed_fraction, "speed fraction", "-", positive=False)
+    n = checked_array(speed_fraction, "speed fraction", "-")
     require(n >= 0, "speed fraction must be >= 0")
-    m = _finite(air_flow_design, "design air flow", "kg/s")
-    return _out(m * n * _finite(density_ratio, "density ratio", "-"))
+    m = checked_array(air_flow_design, "design air flow", "kg/s", positive=True)
+    return _out(m * n * checked_array(density_ratio, "density ratio", "-", positive=True))
 
 
 def compressor_exit_temperature(t_inlet, pr, efficiency):
@@ -306,10 +300,10 @@ def compressor_exit_temperature(t_inlet, pr, efficiency):
     >>> round(compressor_exit_temperature(288.15, 3.0, 0.75), 1)
     429.1
     """
-    t1 = _finite(t_inlet, "inlet temperature", "K")
-    pr = _finite(pr, "pressure ratio", "-")
+    t1 = checked_array(t_inlet, "inlet temperature", "K", positive=True)
+    pr = checked_array(pr, "pressure ratio", "-", positive=True)
     require(pr >= 1, f"pressure ratio must be >= 1 for a compressor (got {np.min(pr):g})")
-    eta = _finite(efficiency, "compressor efficiency", "-")
+    eta = checked_array(efficiency, "compressor efficiency", "-", positive=True)
     require(eta <= 1, f"compressor efficiency must be within 0..1 (got {np.max(eta):g})")
     h1 = np.asarray(thermo.enthalpy(t1))
     h3s = np.asarray(thermo.enthalpy(thermo.isentropic_temperature(t1, pr)))
@@ -361,11 +355,11 @@ def turbine_inlet_choked_nozzle(t4_design, p3, p3_design, air_flow, air_flow_des
     >>> round(turbine_inlet_choked_nozzle(1100.0, 2e5, 3e5, 0.1, 0.15), 1)
     1100.0
     """
-    t4d = _finite(t4_design, "design turbine-inlet temperature", "K")
-    p3 = _finite(p3, "delivery pressure", "Pa")
-    p3d = _finite(p3_design, "design delivery pressure", "Pa")
-    m = _finite(air_flow, "air flow", "kg/s")
-    md = _finite(air_flow_design, "design air flow", "kg/s")
+    t4d = checked_array(t4_design, "design turbine-inlet temperature", "K", positive=True)
+    p3 = checked_array(p3, "delivery pressure", "Pa", positive=True)
+    p3d = checked_array(p3_design, "design delivery pressure", "Pa", positive=True)
+    m = checked_array(air_flow, "air flow", "kg/s", positive=True)
+    md = checked_array(air_flow_design, "design air flow", "kg/s", positive=True)
     t4 = t4d * (p3 * md / (p3d * m)) ** 2
     warn_validity("choked-nozzle T4 law", "delivery pressure / design", p3 / p3d, CHOKED_P3_FRACTION, np.inf, "-")
     warn_validity("choked-nozzle T4 law", "T4 / design T4", t4 / t4d, 0.0, 1.0, "-")
@@ -422,18 +416,18 @@ def fuel_air_ratio_energy_balance(t3, t4, lhv, h_to_c, efficiency=1.0, h_fuel=0.
     >>> round(fuel_air_ratio_energy_balance(450.0, 1000.0, 43.0e6, 1.94), 4)
     0.0144
     """
-    t3 = _finite(t3, "t3 (compressor exit temperature)", "K")
-    t4 = _finite(t4, "t4 (turbine inlet temperature)", "K")
+    t3 = checked_array(t3, "t3 (compressor exit temperature)", "K", positive=True)
+    t4 = checked_array(t4, "t4 (turbine inlet temperature)", "K", positive=True)
     if np.any(t4 <= t3):
         b = np.broadcast_arrays(t3, t4)
         i = np.flatnonzero(np.ravel(b[1] <= b[0]))[0]
         raise FuelsysInputError(
             f"t4 must be above t3 for the combustor to add heat (got t4 {np.ravel(b[1])[i] - 273.15:.1f} °C"
             f" <= t3 {np.ravel(b[0])[i] - 273.15:.1f} °C)")
-    lhv = _finite(lhv, "lower heating value", "J/kg")
-    eta = _finite(efficiency, "combustion efficiency", "-")
+    lhv = checked_array(lhv, "lower heating value", "J/kg", positive=True)
+    eta = checked_array(efficiency, "combustion efficiency", "-", positive=True)
     require(eta <= 1, f"combustion efficiency must be within 0..1 (got {np.max(eta):g})")
-    hf = _finite(h_fuel, "fuel sensible enthalpy", "J/kg", positive=False)
+    hf = checked_array(h_fuel, "fuel sensible enthalpy", "J/kg")
     h_to_c = np.asarray(h_to_c, dtype=float)
     nu = thermo.products_per_kg_fuel(h_to_c)
     hs4 = thermo.species_sensible_enthalpy(t4)
@@ -486,7 +480,7 @@ def fuel_flow(air_flow, t3, t4, lhv, h_to_c, efficiency=1.0, h_fuel=0.0):
     >>> round(fuel_flow(0.25, 450.0, 1000.0, 43.0e6, 1.94) * 60000, 1)  # g/min
     216.3
     """
-    m = _finite(air_flow, "air flow", "kg/s")
+    m = checked_array(air_flow, "air flow", "kg/s", positive=True)
     return _out(m * np.asarray(fuel_air_ratio_energy_balance(t3, t4, lhv, h_to_c, efficiency, h_fuel)))
 
 
@@ -600,12 +594,12 @@ def operating_line(speed, design_speed, pr_design, air_flow_design, t4_design, *
     >>> [round(float(x) / 1e5, 3) for x in line["case_pressure"]]
     [0.141, 1.824]
     """
-    speed = _finite(speed, "speed", "rpm", positive=False)
+    speed = checked_array(speed, "speed", "rpm")
     require(speed >= 0, "speed must be >= 0 rpm")
-    nd = float(_finite(design_speed, "design speed", "rpm"))
+    nd = float(checked_array(design_speed, "design speed", "rpm", positive=True))
     n = speed / nd
-    t1 = _finite(t_ambient, "ambient temperature", "K")
-    pa = _finite(p_ambient, "ambient pressure", "Pa")
+    t1 = checked_array(t_ambient, "ambient temperature", "K", positive=True)
+    pa = checked_array(p_ambient, "ambient pressure", "Pa", positive=True)
     if t4_law not in T4_LAWS:
         raise FuelsysInputError(f"t4 law {t4_law!r} unknown; allowed: {', '.join(T4_LAWS)}")
     measured = {}
@@ -628,7 +622,7 @@ def operating_line(speed, design_speed, pr_design, air_flow_design, t4_design, *
 
     def t4_fallback():
         if t4 is not None:
-            return np.broadcast_to(_finite(t4, "t4", "K"), speed.shape).astype(float)
+            return np.broadcast_to(checked_array(t4, "t4", "K", positive=True), speed.shape).astype(float)
         if t4_law == "constant":
             return np.full(speed.shape, float(t4_design))
         p3d = pa * np.asarray(pressure_ratio(1.0, pr_design, t1, pr_method))

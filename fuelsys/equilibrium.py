@@ -1,5 +1,7 @@
 """Adiabatic flame temperature of a hydrocarbon and air, with and without dissociation.
 
+Floor: flow and heat (uses thermo and fuels below it; the combustor above uses it).
+
 The products are the ideal-gas mixture of CO2, H2O, CO, H2, O2, N2, Ar, OH,
 H, O and NO.  At constant pressure and enthalpy the equilibrium composition
 minimises the Gibbs energy subject to the element balances (C, H, O, N, Ar);

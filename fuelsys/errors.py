@@ -1,4 +1,4 @@
-"""Errors and warnings shared by every part of fuelsys.
+"""Errors and warnings shared by every part of fuelsys (ground floor: imports only numpy).
 
 * :class:`FuelsysInputError` -- impossible input (a negative bore, a
   temperature below the fuel's freezing point).  It is a ``ValueError`` so

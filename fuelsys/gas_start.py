@@ -1,5 +1,7 @@
 """Gas start: canister pressure, gas flow through a start jet or needle, canister chill.
 
+Floor: the engine's parts (uses heat, thermo and fuels).
+
 Canister pressure
     The saturation (bubble-point) pressure of the liquid in the canister at
     its temperature, from :mod:`fuelsys.fuels.gases` (CoolProp reference

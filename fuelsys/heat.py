@@ -1,5 +1,7 @@
 """Heat and mass transfer correlations used by the vaporiser tube.
 
+Floor: flow and heat (uses the ground floor).
+
 One function per published correlation, each with its validity range kept as
 data in :data:`VALIDITY` and checked at run time
 (:func:`fuelsys.errors.warn_validity`), plus dispatchers where several
@@ -26,6 +28,7 @@ import numpy as np
 from fuelsys.constants import SIGMA_SB
 from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.arrays import as_float as _out
+from fuelsys.arrays import checked_array
 
 
 #: Reynolds number where laminar flow ends in the Gnielinski (1995) interpolation [-]
@@ -72,14 +75,6 @@ def _check(name, **values):
         warn_validity(name.replace("_", " "), key, value, low, high, unit)
 
 
-def _positive(name, value, unit):
-    v = np.asarray(value, dtype=float)
-    if np.any(~np.isfinite(v)) or np.any(v <= 0):
-        bad = v[~(np.isfinite(v) & (v > 0))].flat[0]
-        raise FuelsysInputError(f"{name} must be a finite number > 0 (got {bad:g} {unit})")
-    return v
-
-
 # ---------------------------------------------------------------------------
 # friction
 
@@ -119,7 +114,7 @@ def filonenko_1954(Re):
     >>> round(filonenko_1954(1e5), 5)
     0.01799
     """
-    Re = _positive("Reynolds number", Re, "-")
+    Re = checked_array(Re, "Reynolds number", "-", positive=True)
     _check("filonenko_1954", Re=Re)
     return _out((0.790 * np.log(Re) - 1.64) ** -2)
 
@@ -156,7 +151,7 @@ def darcy_friction_smooth(Re):
     >>> round(darcy_friction_smooth(1000.0), 4)
     0.064
     """
-    Re = _positive("Reynolds number", Re, "-")
+    Re = checked_array(Re, "Reynolds number", "-", positive=True)
     lam = 64.0 / np.maximum(Re, 1e-300)
     turb = (0.790 * np.log(np.maximum(Re, RE_TURBULENT)) - 1.64) ** -2
     g = _transition_weight(Re)
@@ -211,8 +206,8 @@ def gnielinski_1976(Re, Pr, fd=None):
     >>> round(gnielinski_1976(1e5, 0.7, 0.0185), 2)
     184.04
     """
-    Re = _positive("Reynolds number", Re, "-")
-    Pr = _positive("Prandtl number", Pr, "-")
+    Re = checked_array(Re, "Reynolds number", "-", positive=True)
+    Pr = checked_array(Pr, "Prandtl number", "-", positive=True)
     _check("gnielinski_1976", Re=Re, Pr=Pr)
     if fd is None:
         fd = (0.790 * np.log(Re) - 1.64) ** -2
@@ -247,8 +242,8 @@ def gnielinski_entry_factor(d, L):
     >>> round(gnielinski_entry_factor(0.01, 0.1), 4)
     1.2154
     """
-    d = _positive("bore", d, "m")
-    L = _positive("length", L, "m")
+    d = checked_array(d, "bore", "m", positive=True)
+    L = checked_array(L, "length", "m", positive=True)
     return _out(1.0 + (d / L) ** (2.0 / 3.0))
 
 
@@ -291,10 +286,10 @@ def hausen_1943(Re, Pr, L, d):
     >>> round(hausen_1943(1000.0, 0.7, 1.0, 0.01), 3)
     4.068
     """
-    Re = _positive("Reynolds number", Re, "-")
-    Pr = _positive("Prandtl number", Pr, "-")
-    L = _positive("length", L, "m")
-    d = _positive("bore", d, "m")
+    Re = checked_array(Re, "Reynolds number", "-", positive=True)
+    Pr = checked_array(Pr, "Prandtl number", "-", positive=True)
+    L = checked_array(L, "length", "m", positive=True)
+    d = checked_array(d, "bore", "m", positive=True)
     _check("hausen_1943", Re=Re, Pr=Pr)
     gz = d / L * Re * Pr
     return _out(3.66 + 0.0668 * gz / (1.0 + 0.04 * gz ** (2.0 / 3.0)))
@@ -341,10 +336,10 @@ def stephan_1959(Re, Pr, L, d):
     >>> round(stephan_1959(1000.0, 0.7, 1.0, 0.01), 3)
     4.289
     """
-    Re = _positive("Reynolds number", Re, "-")
-    Pr = _positive("Prandtl number", Pr, "-")
-    L = _positive("length", L, "m")
-    d = _positive("bore", d, "m")
+    Re = checked_array(Re, "Reynolds number", "-", positive=True)
+    Pr = checked_array(Pr, "Prandtl number", "-", positive=True)
+    L = checked_array(L, "length", "m", positive=True)
+    d = checked_array(d, "bore", "m", positive=True)
     _check("stephan_1959", Re=Re, Pr=Pr)
     gz = d / L * Re * Pr
     num = 3.657 / np.tanh(2.264 * gz ** (-1.0 / 3.0) + 1.7 * gz ** (-2.0 / 3.0)) + 0.0499 * gz * np.tanh(1.0 / gz)
@@ -390,8 +385,8 @@ def gas_property_ratio_factor(t_bulk, t_wall, exponent=0.45):
     >>> round(gas_property_ratio_factor(500.0, 800.0), 4)
     0.8094
     """
-    tb = _positive("bulk temperature", t_bulk, "K")
-    tw = _positive("wall temperature", t_wall, "K")
+    tb = checked_array(t_bulk, "bulk temperature", "K", positive=True)
+    tw = checked_array(t_wall, "wall temperature", "K", positive=True)
     ratio = tb / tw
     heated = ratio < 1.0
     if np.any(heated):
@@ -448,10 +443,10 @@ def nusselt_tube_mean(Re, Pr, L, d, laminar=LAMINAR_DEFAULT, property_factor=1.0
     """
     if laminar not in LAMINAR_METHODS:
         raise FuelsysInputError(f"laminar method must be one of {', '.join(LAMINAR_METHODS)} (got {laminar!r})")
-    Re = _positive("Reynolds number", Re, "-")
-    Pr = _positive("Prandtl number", Pr, "-")
-    L = _positive("length", L, "m")
-    d = _positive("bore", d, "m")
+    Re = checked_array(Re, "Reynolds number", "-", positive=True)
+    Pr = checked_array(Pr, "Prandtl number", "-", positive=True)
+    L = checked_array(L, "length", "m", positive=True)
+    d = checked_array(d, "bore", "m", positive=True)
     if check:
         _check("gnielinski_1976", Pr=Pr)
     return _out(_nusselt_mean_raw(Re, Pr, L, d, laminar, np.asarray(property_factor, dtype=float)))
@@ -525,9 +520,9 @@ def nusselt_tube_segment(Re, Pr, x1, x2, d, laminar=LAMINAR_DEFAULT, property_fa
     """
     if laminar not in LAMINAR_METHODS:
         raise FuelsysInputError(f"laminar method must be one of {', '.join(LAMINAR_METHODS)} (got {laminar!r})")
-    Re = _positive("Reynolds number", Re, "-")
-    Pr = _positive("Prandtl number", Pr, "-")
-    d = _positive("bore", d, "m")
+    Re = checked_array(Re, "Reynolds number", "-", positive=True)
+    Pr = checked_array(Pr, "Prandtl number", "-", positive=True)
+    d = checked_array(d, "bore", "m", positive=True)
     x1 = np.asarray(x1, dtype=float)
     x2 = np.asarray(x2, dtype=float)
     if np.any(x1 < 0) or np.any(x2 <= x1):
@@ -595,7 +590,7 @@ def sutherland_viscosity_air(T):
     >>> round(sutherland_viscosity_air(300.0) * 1e6, 2)
     18.47
     """
-    T = _positive("temperature", T, "K")
+    T = checked_array(T, "temperature", "K", positive=True)
     _check("sutherland_viscosity_air", T=T)
     return _out(_sutherland(T, SUTHERLAND_AIR["viscosity"]))
 
@@ -626,7 +621,7 @@ def sutherland_conductivity_air(T):
     >>> round(sutherland_conductivity_air(300.0), 4)
     0.0262
     """
-    T = _positive("temperature", T, "K")
+    T = checked_array(T, "temperature", "K", positive=True)
     _check("sutherland_conductivity_air", T=T)
     return _out(_sutherland(T, SUTHERLAND_AIR["conductivity"]))
 
@@ -671,8 +666,8 @@ def lefebvre_flame_radiation(t_gas, t_wall, emissivity_gas, emissivity_wall=0.7)
     >>> round(lefebvre_flame_radiation(1800.0, 900.0, 0.3) / 1e3, 1)
     125.0
     """
-    tg = _positive("gas temperature", t_gas, "K")
-    tw = _positive("wall temperature", t_wall, "K")
+    tg = checked_array(t_gas, "gas temperature", "K", positive=True)
+    tw = checked_array(t_wall, "wall temperature", "K", positive=True)
     eg = np.asarray(emissivity_gas, dtype=float)
     ew = np.asarray(emissivity_wall, dtype=float)
     for name, e in (("gas emissivity", eg), ("wall emissivity", ew)):
@@ -724,8 +719,8 @@ def spalding_transfer_number(cp_gas, t_gas, t_surface, latent_heat):
     >>> round(spalding_transfer_number(2000.0, 800.0, 450.0, 300e3), 4)
     2.3333
     """
-    cp = _positive("gas specific heat", cp_gas, "J/(kg K)")
-    L = _positive("latent heat", latent_heat, "J/kg")
+    cp = checked_array(cp_gas, "gas specific heat", "J/(kg K)", positive=True)
+    L = checked_array(latent_heat, "latent heat", "J/kg", positive=True)
     return _out(cp * (np.asarray(t_gas, dtype=float) - np.asarray(t_surface, dtype=float)) / L)
 
 
@@ -790,9 +785,9 @@ def d2_evaporation_constant(k_gas, cp_gas, rho_liquid, B):
     >>> round(d2_evaporation_constant(0.05, 2000.0, 700.0, 2.0) * 1e7, 4)
     3.1389
     """
-    k = _positive("gas conductivity", k_gas, "W/(m K)")
-    cp = _positive("gas specific heat", cp_gas, "J/(kg K)")
-    rho = _positive("liquid density", rho_liquid, "kg/m³")
+    k = checked_array(k_gas, "gas conductivity", "W/(m K)", positive=True)
+    cp = checked_array(cp_gas, "gas specific heat", "J/(kg K)", positive=True)
+    rho = checked_array(rho_liquid, "liquid density", "kg/m³", positive=True)
     B = np.asarray(B, dtype=float)
     if np.any(B < 0) or np.any(~np.isfinite(B)):
         raise FuelsysInputError(f"transfer number must be >= 0 (got {np.ravel(B)[0]:g})")
@@ -823,7 +818,7 @@ def d2_lifetime(diameter, K):
     >>> round(d2_lifetime(100e-6, 1e-7), 4)
     0.1
     """
-    D = _positive("drop diameter", diameter, "m")
+    D = checked_array(diameter, "drop diameter", "m", positive=True)
     K = np.asarray(K, dtype=float)
     if np.any(K < 0) or np.any(np.isnan(K)):
         raise FuelsysInputError("evaporation constant must be >= 0 [m²/s]")
@@ -855,7 +850,7 @@ def rayleigh_drop_diameter(jet_diameter):
     >>> round(rayleigh_drop_diameter(0.3e-3) * 1e3, 3)
     0.567
     """
-    return _out(RAYLEIGH_DROP_RATIO * _positive("jet diameter", jet_diameter, "m"))
+    return _out(RAYLEIGH_DROP_RATIO * checked_array(jet_diameter, "jet diameter", "m", positive=True))
 
 
 def weber_limited_diameter(surface_tension, gas_density, relative_velocity, weber_critical=WEBER_CRITICAL):
@@ -889,7 +884,7 @@ def weber_limited_diameter(surface_tension, gas_density, relative_velocity, webe
     >>> round(weber_limited_diameter(0.025, 2.0, 40.0) * 1e6, 2)
     93.75
     """
-    s = _positive("surface tension", surface_tension, "N/m")
-    r = _positive("gas density", gas_density, "kg/m³")
-    u = _positive("relative velocity", relative_velocity, "m/s")
+    s = checked_array(surface_tension, "surface tension", "N/m", positive=True)
+    r = checked_array(gas_density, "gas density", "kg/m³", positive=True)
+    u = checked_array(relative_velocity, "relative velocity", "m/s", positive=True)
     return _out(weber_critical * s / (r * u * u))

@@ -1,5 +1,7 @@
 """Fuel pump sizing: the system curve, a gear pump with its DC motor, operating points.
 
+Floor: the engine's parts (uses the ground floor).
+
 System curve
 ------------
 Pressure the pump must hold at its outlet to push a flow into the engine::

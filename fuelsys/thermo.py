@@ -1,4 +1,4 @@
-"""Ideal-gas properties of air and of lean combustion products.
+"""Ideal-gas properties of air and of lean combustion products (ground floor: constants, errors, arrays).
 
 Each species (N2, O2, Ar, CO2, H2O) is described by a NASA Glenn
 9-coefficient polynomial pair (200-1000 K and 1000-6000 K)::

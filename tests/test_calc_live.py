@@ -28,7 +28,7 @@ from openpyxl.worksheet.formula import ArrayFormula
 from fuelsys.sheet import adapt, evaluate
 from fuelsys.sheet.calc_addin import generate, runner
 
-pytestmark = pytest.mark.live
+pytestmark = [pytest.mark.live, pytest.mark.slow]
 
 ROOT = Path(__file__).resolve().parent.parent
 STARTER = ROOT / "workbook" / "fuelsys-starter.xlsx"

@@ -372,6 +372,7 @@ def formulas(draw, depth=0):
     return f"({a})"
 
 
+@pytest.mark.slow
 @settings(max_examples=300, deadline=None)
 @given(text=formulas(), host=st.tuples(st.integers(1, 50), st.integers(1, 30)),
        move=st.tuples(st.integers(-20, 20), st.integers(-10, 10)))

@@ -177,6 +177,60 @@ def test_the_floor_check_sees_function_level_imports():
     assert "fuelsys.thermo" in IMPORTS["fuelsys.fuels.gases"]
 
 
+#: another module's private names still used: (user, owner) -> reason
+KNOWN_PRIVATE_USES = {
+    ("fuelsys.flow.bench", "fuelsys.flow.friction"): "_turbulent_method: the flow package's method check",
+    ("fuelsys.flow.lines", "fuelsys.flow.friction"): "_fully_developed, _turbulent_method: friction internals",
+    ("fuelsys.flow.manifold", "fuelsys.flow.friction"): "_turbulent_method: the flow package's method check",
+    ("fuelsys.flow.needle", "fuelsys.flow.friction"): "_apparent, _turbulent_method: friction internals",
+    ("fuelsys.flow.bench", "fuelsys.flow.needle"): "_check_pmax, _flag_validity, _k_total: needle internals",
+    ("fuelsys.flow.manifold", "fuelsys.flow.needle"): "_check_pmax, _flag_validity, _needle_dp_and_slope",
+    ("fuelsys.flow.manifold", "fuelsys.flow.lines"): "_line_dp_and_slope: the line's drop with its slope",
+    ("fuelsys.vaporiser._droplets", "fuelsys.heat"): "_sutherland: heat's raw air viscosity",
+    ("fuelsys.vaporiser._tables", "fuelsys.heat"): "_sutherland: heat's raw air viscosity",
+    ("fuelsys.vaporiser._march", "fuelsys.heat"): "_radiation_raw, _radiation_slope_raw, _segment_raw: heat's "
+                                                  "unchecked kernels for the march",
+}
+#: the way out for the entries above (physics and vaporiser helpers' files): a private module inside the
+#: package (flow/_core.py) holding the shared internals, and heat's kernels public with their docstring
+
+
+def private_uses():
+    """``{(user, owner): names}``: private names (``_x``) a module takes from another fuelsys module
+    (a package's own private modules, like vaporiser/_march.py, are the package's inside and allowed)."""
+    out = {}
+    for module, path in MODULES.items():
+        tree = ast.parse(path.read_text(encoding="utf-8"))
+        aliases = {}
+        for node in ast.walk(tree):
+            if isinstance(node, ast.ImportFrom) and node.module and node.module.startswith("fuelsys") \
+                    and not node.level:
+                for a in node.names:
+                    full = f"{node.module}.{a.name}"
+                    if full in MODULES:
+                        aliases[a.asname or a.name] = full
+                    elif a.name.startswith("_") and not a.name.startswith("__") and node.module != module:
+                        out.setdefault((module, node.module), set()).add(a.name)
+            elif isinstance(node, ast.Import):
+                for a in node.names:
+                    if a.name.startswith("fuelsys."):
+                        aliases[a.asname or a.name] = a.name
+        for node in ast.walk(tree):
+            if isinstance(node, ast.Attribute) and isinstance(node.value, ast.Name) \
+                    and node.value.id in aliases and node.attr.startswith("_") and not node.attr.startswith("__"):
+                out.setdefault((module, aliases[node.value.id]), set()).add(node.attr)
+    return {k: v for k, v in out.items()
+            if not (k[1].rsplit(".", 1)[-1].startswith("_") and k[1].rsplit(".", 1)[0] == k[0].rsplit(".", 1)[0])}
+
+
+def test_no_module_uses_another_modules_private_names():
+    uses = private_uses()
+    unknown = {k: sorted(v) for k, v in uses.items() if k not in KNOWN_PRIVATE_USES}
+    assert not unknown, f"private names used across modules (make them public or move them): {unknown}"
+    stale = sorted(set(KNOWN_PRIVATE_USES) - set(uses))
+    assert not stale, f"no longer used: remove from KNOWN_PRIVATE_USES: {stale}"
+
+
 # -- sizes ----------------------------------------------------------------------------------------
 def _rel(path):
     return path.relative_to(ROOT).as_posix()

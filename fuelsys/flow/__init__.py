@@ -1,5 +1,7 @@
 """How liquid moves: injector needles, the ring manifold, fuel lines and bench tests.
 
+Floor: flow and heat (uses fuels and the ground floor).
+
 Core API (SI units, numpy broadcasting, fluid properties passed as arrays so
 the flow models do not depend on the fuel model):
 

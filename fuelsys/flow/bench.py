@@ -29,12 +29,13 @@ import math
 
 import numpy as np
 
+from fuelsys.arrays import as_float as _out
+from fuelsys.arrays import checked_array
 from fuelsys.errors import FuelsysError, FuelsysInputError
 from fuelsys.flow import fittings
 from fuelsys.flow import friction as fr
 from fuelsys.roots import chandrupatla, expand_bracket
-from fuelsys.flow.needle import (P_MAX, _check_pmax, _check_positive, _check_roughness, _flag_validity, _k_total,
-                                 _out, liquid_properties)
+from fuelsys.flow.needle import P_MAX, _check_pmax, _flag_validity, _k_total, liquid_properties
 
 _PI = math.pi
 
@@ -68,9 +69,9 @@ def bench_mass_flow(volume, time, rho):
     >>> round(bench_mass_flow(50e-6, 60.0, 998.2) * 60e3, 3)   # 50 mL of water in a minute, g/min
     49.91
     """
-    V = _check_positive(volume, "volume", 1e6, "mL")
-    t = _check_positive(time, "time", 1.0, "s")
-    rho = _check_positive(rho, "density", 1.0, "kg/m³")
+    V = checked_array(volume, "volume", "mL", positive=True, scale=1e6)
+    t = checked_array(time, "time", "s", positive=True)
+    rho = checked_array(rho, "density", "kg/m³", positive=True)
     return _out(rho * V / t)
 
 
@@ -130,13 +131,13 @@ def effective_bore(mdot, dp, length, rho, mu, entrance=fittings.DEFAULT_ENTRANCE
     >>> round(effective_bore(m, 0.2e5, 25e-3, 998.2, 1.0e-3) * 1e3, 6)
     0.33
     """
-    m = _check_positive(mdot, "flow", 60e3, "g/min")
-    dp = _check_positive(dp, "dp", 1e-5, "bar")
-    L = _check_positive(length, "length", 1e3, "mm")
-    rho = _check_positive(rho, "density", 1.0, "kg/m³")
-    mu = _check_positive(mu, "viscosity", 1.0, "Pa·s")
-    cd = _check_positive(cd, "cd (discharge-coefficient multiplier)", 1.0, "")
-    e = _check_roughness(roughness)
+    m = checked_array(mdot, "flow", "g/min", positive=True, scale=60e3)
+    dp = checked_array(dp, "dp", "bar", positive=True, scale=1e-5)
+    L = checked_array(length, "length", "mm", positive=True, scale=1e3)
+    rho = checked_array(rho, "density", "kg/m³", positive=True)
+    mu = checked_array(mu, "viscosity", "Pa·s", positive=True)
+    cd = checked_array(cd, "cd (discharge-coefficient multiplier)", "", positive=True)
+    e = checked_array(roughness, "roughness", "um", nonneg=True, scale=1e6)
     k_ent = np.asarray(fittings.entrance_k(entrance), dtype=float)
     turb = fr._turbulent_method(turbulent)
     p_max = _check_pmax(p_max)

@@ -69,6 +69,7 @@ import numpy as np
 
 from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.arrays import as_float as _out
+from fuelsys.arrays import checked_array
 
 #: absolute roughness of drawn tubing (stainless hypodermic, copper, brass) [m]
 #: -- Moody (1944): 0.000005 ft = 1.5 um
@@ -98,14 +99,6 @@ _LN37530 = math.log(37530.0)
 _LN7 = math.log(7.0)
 _C_LOG10 = 2.0 / math.log(10.0)
 
-
-
-def _positive(x, name: str, unit: str = "-") -> np.ndarray:
-    x = np.asarray(x, dtype=float)
-    if np.any(~np.isfinite(x)) or np.any(x <= 0):
-        bad = x[~(np.isfinite(x) & (x > 0))].flat[0]
-        raise FuelsysInputError(f"{name} must be a finite number > 0 (got {bad:g} {unit})".rstrip())
-    return x
 
 
 def _relative_roughness(eD) -> np.ndarray:
@@ -147,7 +140,7 @@ def hagen_poiseuille(Re):
     >>> hagen_poiseuille(1000.0)
     0.064
     """
-    Re = _positive(Re, "Reynolds number")
+    Re = checked_array(Re, "Reynolds number", "-", positive=True)
     warn_validity("Hagen-Poiseuille (laminar)", "Reynolds number", Re, *HAGEN_POISEUILLE_VALIDITY["Re"], "-")
     return _out(64.0 / Re)
 
@@ -211,7 +204,7 @@ def shah_1978(x_plus):
     >>> round(shah_1978(1.0), 4)
     16.3098
     """
-    x = _positive(x_plus, "x+")
+    x = checked_array(x_plus, "x+", "-", positive=True)
     return _out(_shah_terms(x)[0])
 
 
@@ -240,8 +233,8 @@ def shah_1978_darcy(Re, l_over_d):
     >>> round(shah_1978_darcy(100.0, 1e4) * 100.0 / 64.0, 4)   # long tube -> 64/Re
     1.0002
     """
-    Re = _positive(Re, "Reynolds number")
-    lam = _positive(l_over_d, "L/D")
+    Re = checked_array(Re, "Reynolds number", "-", positive=True)
+    lam = checked_array(l_over_d, "L/D", "-", positive=True)
     return _out(4.0 * _shah_terms(lam / Re)[0] / Re)
 
 
@@ -347,7 +340,7 @@ def colebrook_1939(Re, eD=0.0):
     >>> round(colebrook_1939(1e5, 1e-4), 5)
     0.01851
     """
-    Re = _positive(Re, "Reynolds number")
+    Re = checked_array(Re, "Reynolds number", "-", positive=True)
     eD = _relative_roughness(eD)
     warn_validity("Colebrook (1939)", "Reynolds number", Re, *COLEBROOK_1939_VALIDITY["Re"], "-")
     warn_validity("Colebrook (1939)", "relative roughness", eD,
@@ -461,7 +454,7 @@ def friction_fully_developed(Re, eD=0.0, turbulent: str = DEFAULT_TURBULENT):
     >>> round(friction_fully_developed(500.0), 4)
     0.128
     """
-    Re = _positive(Re, "Reynolds number")
+    Re = checked_array(Re, "Reynolds number", "-", positive=True)
     eD = _relative_roughness(eD)
     turb = _turbulent_method(turbulent)
     warn_validity("Churchill (1977) all-regime friction", "Reynolds number", Re,
@@ -511,8 +504,8 @@ def apparent_friction(Re, l_over_d, eD=0.0, turbulent: str = DEFAULT_TURBULENT):
     >>> round(apparent_friction(100.0, 20.0) / (64.0 / 100.0), 3)  # short tube: above 64/Re
     1.094
     """
-    Re = _positive(Re, "Reynolds number")
-    lam = _positive(l_over_d, "L/D")
+    Re = checked_array(Re, "Reynolds number", "-", positive=True)
+    lam = checked_array(l_over_d, "L/D", "-", positive=True)
     eD = _relative_roughness(eD)
     turb = _turbulent_method(turbulent)
     warn_validity("Churchill (1977) all-regime friction", "Reynolds number", Re,

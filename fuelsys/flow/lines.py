@@ -26,9 +26,11 @@ import math
 
 import numpy as np
 
+from fuelsys.arrays import as_float as _out
+from fuelsys.arrays import checked_array
 from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.flow import friction as fr
-from fuelsys.flow.needle import _check_positive, _check_roughness, _out, liquid_properties
+from fuelsys.flow.needle import liquid_properties
 
 _PI = math.pi
 
@@ -101,13 +103,13 @@ def line_dp(mdot, bore, length, rho, mu, k_total=0.0, roughness=fr.DRAWN_TUBING_
     >>> round(dp / 1e5, 4)
     0.0405
     """
-    m = _check_positive(mdot, "flow", 60e3, "g/min")
-    D = _check_positive(bore, "bore", 1e3, "mm")
-    L = _check_positive(length, "length", 1.0, "m")
-    rho = _check_positive(rho, "density", 1.0, "kg/m³")
-    mu = _check_positive(mu, "viscosity", 1.0, "Pa·s")
+    m = checked_array(mdot, "flow", "g/min", positive=True, scale=60e3)
+    D = checked_array(bore, "bore", "mm", positive=True, scale=1e3)
+    L = checked_array(length, "length", "m", positive=True)
+    rho = checked_array(rho, "density", "kg/m³", positive=True)
+    mu = checked_array(mu, "viscosity", "Pa·s", positive=True)
     k = _check_k(k_total)
-    e = _check_roughness(roughness)
+    e = checked_array(roughness, "roughness", "um", nonneg=True, scale=1e6)
     turb = fr._turbulent_method(turbulent)
     m, D, L, rho, mu, k, e = np.broadcast_arrays(m, D, L, rho, mu, k, e)
     dp, _, Re = _line_dp_and_slope(m, D, L, rho, mu, k, e / D, turb)

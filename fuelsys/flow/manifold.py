@@ -49,11 +49,12 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from fuelsys.arrays import checked_array
 from fuelsys.errors import FuelsysError, FuelsysInputError, ValidityWarning
 from fuelsys.flow import fittings
 from fuelsys.flow import friction as fr
 from fuelsys.flow.lines import _line_dp_and_slope
-from fuelsys.flow.needle import (P_MAX, _check_pmax, _check_positive, _check_roughness, _flag_validity,
+from fuelsys.flow.needle import (P_MAX, _check_pmax, _flag_validity,
                                  _needle_dp_and_slope, liquid_properties, needle_flow)
 
 _PI = math.pi
@@ -176,18 +177,18 @@ def ring_manifold(bores, lengths, p_supply, p_case, ring_bore, ring_diameter, rh
     >>> round(float(r.supply_flow / r.flows.sum()), 12)
     1.0
     """
-    D = _check_positive(bores, "bore", 1e3, "mm")
+    D = checked_array(bores, "bore", "mm", positive=True, scale=1e3)
     if D.ndim == 0:
         D = D[None]
     N = D.shape[-1]
-    L = _check_positive(lengths, "length", 1e3, "mm")
-    Dr = _check_positive(ring_bore, "ring bore", 1e3, "mm")
-    Dring = _check_positive(ring_diameter, "ring diameter", 1e3, "mm")
-    rho = _check_positive(rho, "density", 1.0, "kg/m³")
-    mu = _check_positive(mu, "viscosity", 1.0, "Pa·s")
-    cd = _check_positive(cd, "cd (discharge-coefficient multiplier)", 1.0, "")
-    e = _check_roughness(roughness)
-    er = _check_roughness(ring_roughness)
+    L = checked_array(lengths, "length", "mm", positive=True, scale=1e3)
+    Dr = checked_array(ring_bore, "ring bore", "mm", positive=True, scale=1e3)
+    Dring = checked_array(ring_diameter, "ring diameter", "mm", positive=True, scale=1e3)
+    rho = checked_array(rho, "density", "kg/m³", positive=True)
+    mu = checked_array(mu, "viscosity", "Pa·s", positive=True)
+    cd = checked_array(cd, "cd (discharge-coefficient multiplier)", "", positive=True)
+    e = checked_array(roughness, "roughness", "um", nonneg=True, scale=1e6)
+    er = checked_array(ring_roughness, "roughness", "um", nonneg=True, scale=1e6)
     k_ent = np.asarray(fittings.entrance_k(entrance), dtype=float)
     turb = fr._turbulent_method(turbulent)
     p_max = _check_pmax(p_max)

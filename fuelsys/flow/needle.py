@@ -59,6 +59,7 @@ from fuelsys.flow import fittings
 from fuelsys.flow import friction as fr
 from fuelsys.roots import expand_bracket, newton_bracketed
 from fuelsys.arrays import as_float as _out
+from fuelsys.arrays import checked_array
 
 #: highest pressure difference the needle functions accept by default [Pa] (20 bar)
 P_MAX = 20e5
@@ -75,23 +76,6 @@ _LN2 = math.log(2.0)
 
 
 
-def _check_positive(x, name: str, scale: float, unit: str) -> np.ndarray:
-    x = np.asarray(x, dtype=float)
-    ok = np.isfinite(x) & (x > 0)
-    if not np.all(ok):
-        bad = x[~ok].flat[0]
-        raise FuelsysInputError(f"{name} must be > 0 (got {bad * scale:g} {unit})")
-    return x
-
-
-def _check_roughness(e) -> np.ndarray:
-    e = np.asarray(e, dtype=float)
-    ok = np.isfinite(e) & (e >= 0)
-    if not np.all(ok):
-        raise FuelsysInputError(f"roughness must be >= 0 (got {e[~ok].flat[0] * 1e6:g} um)")
-    return e
-
-
 def _check_pmax(p_max) -> float:
     p_max = float(p_max)
     if not p_max > 0:
@@ -100,13 +84,13 @@ def _check_pmax(p_max) -> float:
 
 
 def _prepare(bore, length, rho, mu, entrance, cd, roughness, turbulent):
-    D = _check_positive(bore, "bore", 1e3, "mm")
-    L = _check_positive(length, "length", 1e3, "mm")
-    rho = _check_positive(rho, "density", 1.0, "kg/m³")
-    mu = _check_positive(mu, "viscosity", 1.0, "Pa·s")
+    D = checked_array(bore, "bore", "mm", positive=True, scale=1e3)
+    L = checked_array(length, "length", "mm", positive=True, scale=1e3)
+    rho = checked_array(rho, "density", "kg/m³", positive=True)
+    mu = checked_array(mu, "viscosity", "Pa·s", positive=True)
     k_ent = np.asarray(fittings.entrance_k(entrance), dtype=float)
-    cd = _check_positive(cd, "cd (discharge-coefficient multiplier)", 1.0, "")
-    e = _check_roughness(roughness)
+    cd = checked_array(cd, "cd (discharge-coefficient multiplier)", "", positive=True)
+    e = checked_array(roughness, "roughness", "um", nonneg=True, scale=1e6)
     turb = fr._turbulent_method(turbulent)
     return D, L, rho, mu, k_ent, cd, e, turb
 
@@ -255,7 +239,7 @@ def needle_dp(mdot, bore, length, rho, mu, entrance=fittings.DEFAULT_ENTRANCE, c
     >>> round(dp / 1e5, 4)
     0.1136
     """
-    m = _check_positive(mdot, "flow", 1e3 * 60.0, "g/min")
+    m = checked_array(mdot, "flow", "g/min", positive=True, scale=1e3 * 60.0)
     D, L, rho, mu, k_ent, cd, e, turb = _prepare(bore, length, rho, mu, entrance, cd, roughness, turbulent)
     p_max = _check_pmax(p_max)
     m, D, L, rho, mu, k_ent, cd, e = np.broadcast_arrays(m, D, L, rho, mu, k_ent, cd, e)
@@ -382,9 +366,9 @@ def needle_reynolds(mdot, bore, mu):
     >>> round(needle_reynolds(1e-4, 0.4e-3, 1.6e-3), 1)
     198.9
     """
-    m = _check_positive(mdot, "flow", 60e3, "g/min")
-    D = _check_positive(bore, "bore", 1e3, "mm")
-    mu = _check_positive(mu, "viscosity", 1.0, "Pa·s")
+    m = checked_array(mdot, "flow", "g/min", positive=True, scale=60e3)
+    D = checked_array(bore, "bore", "mm", positive=True, scale=1e3)
+    mu = checked_array(mu, "viscosity", "Pa·s", positive=True)
     return _out(4.0 * m / (_PI * D * mu))
 
 
@@ -414,9 +398,9 @@ def needle_velocity(mdot, bore, rho):
     >>> round(needle_velocity(1e-4, 0.4e-3, 800.0), 3)
     0.995
     """
-    m = _check_positive(mdot, "flow", 60e3, "g/min")
-    D = _check_positive(bore, "bore", 1e3, "mm")
-    rho = _check_positive(rho, "density", 1.0, "kg/m³")
+    m = checked_array(mdot, "flow", "g/min", positive=True, scale=60e3)
+    D = checked_array(bore, "bore", "mm", positive=True, scale=1e3)
+    rho = checked_array(rho, "density", "kg/m³", positive=True)
     return _out(4.0 * m / (rho * _PI * D * D))
 
 
@@ -462,7 +446,7 @@ def needle_losses(mdot, bore, length, rho, mu, entrance=fittings.DEFAULT_ENTRANC
     >>> t["length"] > t["entrance"] + t["exit"]
     True
     """
-    m = _check_positive(mdot, "flow", 60e3, "g/min")
+    m = checked_array(mdot, "flow", "g/min", positive=True, scale=60e3)
     D, L, rho, mu, k_ent, cd, e, turb = _prepare(bore, length, rho, mu, entrance, cd, roughness, turbulent)
     m, D, L, rho, mu, k_ent, cd, e = np.broadcast_arrays(m, D, L, rho, mu, k_ent, cd, e)
     mm = m / cd

@@ -1,5 +1,7 @@
 """What the fuel is: liquid and gas properties behind one interface.
 
+Floor: fuels, above the ground floor (errors, arrays, constants, roots, thermo) and below everything else.
+
 :func:`get_fuel` turns a fuel specification -- a built-in name, a user's fuel
 table (dict, list of ``[label, value]`` rows, or a .csv/.json file name) --
 into a :class:`fuelsys.fuels.base.Fuel`:

@@ -1,5 +1,7 @@
 """One vaporiser tube: air in, heat from the wall, fuel evaporated, margins.
 
+Floor: the engine's parts (uses flow and heat, fuels, thermo).
+
 A straight vaporiser tube takes air from the case through its inlet (driven
 by the liner pressure drop) and liquid fuel from its needle, is heated by the
 flame around it and delivers a rich mixture to the front of the combustor.

@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import numpy as np
 
-from fuelsys.errors import FuelsysInputError
 
 
 def family(fuel) -> str:
@@ -14,15 +13,6 @@ def family(fuel) -> str:
         if name.startswith(key):
             return key
     return "kerosene"
-
-
-def require_positive(name, value, scale, unit):
-    v = np.asarray(value, dtype=float)
-    if np.any(~np.isfinite(v)) or np.any(v <= 0):
-        bad = v[~(np.isfinite(v) & (v > 0))].flat[0]
-        raise FuelsysInputError(f"{name} must be > 0 (got {bad * scale:g} {unit})")
-    return v
-
 
 
 def as_points(shape, *arrays):

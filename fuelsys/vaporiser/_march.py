@@ -12,7 +12,8 @@ import numpy as np
 
 from fuelsys import heat, thermo
 from fuelsys.flow.fittings import crane_return_bend_k
-from fuelsys.vaporiser._common import as_points, require_positive
+from fuelsys.arrays import checked_array
+from fuelsys.vaporiser._common import as_points
 from fuelsys.vaporiser.walls import FlameSide, WallProfile
 
 
@@ -254,7 +255,7 @@ def wall_shape(wall):
         return np.shape(wall.temperature)[:-1]
     if isinstance(wall, FlameSide):
         return np.broadcast(*[np.asarray(getattr(wall, f), dtype=float) for f in FLAME_FIELDS]).shape
-    require_positive("wall temperature", wall, 1.0, "K")
+    checked_array(wall, "wall temperature", "K", positive=True)
     return np.shape(wall)
 
 

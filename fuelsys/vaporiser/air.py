@@ -15,7 +15,7 @@ import numpy as np
 from fuelsys import thermo
 from fuelsys.arrays import as_float as _out
 from fuelsys.errors import FuelsysInputError, warn_validity
-from fuelsys.vaporiser._common import require_positive
+from fuelsys.arrays import checked_array
 from fuelsys.vaporiser.constants import CD_TUBE_INLET, VALIDITY
 
 
@@ -102,7 +102,7 @@ def tube_air_flow(bore, liner_dp_fraction, case_pressure, t_air, cd=CD_TUBE_INLE
     """
     if method not in AIR_FLOW_METHODS:
         raise FuelsysInputError(f"air-flow method must be one of {', '.join(AIR_FLOW_METHODS)} (got {method!r})")
-    d = require_positive("tube bore", bore, 1e3, "mm")
+    d = checked_array(bore, "tube bore", "mm", positive=True, scale=1e3)
     dn = np.asarray(needle_od, dtype=float)
     if np.any(~np.isfinite(dn)) or np.any(dn < 0):
         raise FuelsysInputError("needle outside diameter must be >= 0 [m]")
@@ -116,9 +116,9 @@ def tube_air_flow(bore, liner_dp_fraction, case_pressure, t_air, cd=CD_TUBE_INLE
         bad = dp[~(np.isfinite(dp) & (dp > 0) & (dp < 1))].flat[0]
         raise FuelsysInputError(f"liner pressure drop must be > 0 and < 100 % of the case pressure "
                                 f"(got {bad * 100:g} %)")
-    p0 = require_positive("case pressure", case_pressure, 1e-5, "bar abs")
-    t0 = require_positive("air temperature", t_air, 1.0, "K")
-    cd = require_positive("discharge coefficient", cd, 1.0, "")
+    p0 = checked_array(case_pressure, "case pressure", "bar abs", positive=True, scale=1e-5)
+    t0 = checked_array(t_air, "air temperature", "K", positive=True)
+    cd = checked_array(cd, "discharge coefficient", "", positive=True)
     if np.any(cd > 1):
         raise FuelsysInputError(f"discharge coefficient must be within 0..1 (got {np.max(cd):g})")
     low, high, unit = VALIDITY["tube_air_flow"]["liner_dp_fraction"]
@@ -173,15 +173,15 @@ def residence_time_estimate(bore, heated_length, air_flow, fuel_flow, pressure, 
     >>> round(residence_time_estimate(6e-3, 0.15, 4e-3, 0.0, 3e5, 473.15) * 1e3, 3)
     2.342
     """
-    d = require_positive("tube bore", bore, 1e3, "mm")
-    L = require_positive("heated length", heated_length, 1e3, "mm")
-    ma = require_positive("air flow", air_flow, 1e3, "g/s")
+    d = checked_array(bore, "tube bore", "mm", positive=True, scale=1e3)
+    L = checked_array(heated_length, "heated length", "mm", positive=True, scale=1e3)
+    ma = checked_array(air_flow, "air flow", "g/s", positive=True, scale=1e3)
     mf = np.asarray(fuel_flow, dtype=float)
     if np.any(~np.isfinite(mf)) or np.any(mf < 0):
         raise FuelsysInputError("fuel flow must be >= 0 [kg/s]")
-    P = require_positive("pressure", pressure, 1e-5, "bar abs")
-    t1 = require_positive("inlet temperature", t_in, 1.0, "K")
-    t2 = t1 if t_exit is None else require_positive("exit temperature", t_exit, 1.0, "K")
+    P = checked_array(pressure, "pressure", "bar abs", positive=True, scale=1e-5)
+    t1 = checked_array(t_in, "inlet temperature", "K", positive=True)
+    t2 = t1 if t_exit is None else checked_array(t_exit, "exit temperature", "K", positive=True)
     if fuel_molar_mass is None:
         from fuelsys.fuels import get_fuel
 

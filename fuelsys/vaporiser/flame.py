@@ -14,7 +14,8 @@ import numpy as np
 from fuelsys.arrays import as_float as _out
 from fuelsys.errors import FuelsysInputError, warn_validity
 from fuelsys.fuels.base import P_ATM
-from fuelsys.vaporiser._common import family, require_positive
+from fuelsys.arrays import checked_array
+from fuelsys.vaporiser._common import family
 from fuelsys.vaporiser.constants import VALIDITY
 
 # -- flame-speed constants (one table per correlation) -------------------------
@@ -88,9 +89,9 @@ def metghalchi_keck_1982(phi, T, P, fuel="isooctane"):
     """
     if fuel not in MK_CONSTANTS:
         raise FuelsysInputError(f"Metghalchi-Keck fuel must be one of {', '.join(MK_CONSTANTS)} (got {fuel!r})")
-    phi = require_positive("equivalence ratio", phi, 1.0, "")
-    T = require_positive("temperature", T, 1.0, "K")
-    P = require_positive("pressure", P, 1e-5, "bar abs")
+    phi = checked_array(phi, "equivalence ratio", "", positive=True)
+    T = checked_array(T, "temperature", "K", positive=True)
+    P = checked_array(P, "pressure", "bar abs", positive=True, scale=1e-5)
     for key, v in (("phi", phi), ("T", T), ("P", P)):
         low, high, unit = VALIDITY["metghalchi_keck_1982"][key]
         warn_validity("Metghalchi-Keck 1982 flame speed", key, v, low, high, unit)
@@ -144,9 +145,9 @@ def gulder_1984(phi, T, P, fuel="isooctane"):
     """
     if fuel not in GULDER_CONSTANTS:
         raise FuelsysInputError(f"Gülder fuel must be one of {', '.join(GULDER_CONSTANTS)} (got {fuel!r})")
-    phi = require_positive("equivalence ratio", phi, 1.0, "")
-    T = require_positive("temperature", T, 1.0, "K")
-    P = require_positive("pressure", P, 1e-5, "bar abs")
+    phi = checked_array(phi, "equivalence ratio", "", positive=True)
+    T = checked_array(T, "temperature", "K", positive=True)
+    P = checked_array(P, "pressure", "bar abs", positive=True, scale=1e-5)
     for key, v in (("phi", phi), ("T", T), ("P", P)):
         low, high, unit = VALIDITY["gulder_1984"][key]
         warn_validity("Gülder 1984 flame speed", key, v, low, high, unit)
@@ -246,7 +247,7 @@ def flammability_limits(fuel, T, check=True):
     """
     if not check:
         return _flammability_raw(fuel, np.asarray(T, dtype=float))
-    T = require_positive("temperature", T, 1.0, "K")
+    T = checked_array(T, "temperature", "K", positive=True)
     low, high, unit = VALIDITY["flammability_limits"]["T"]
     warn_validity("flammability limits (Zabetakis temperature law)", "T", T, low, high, unit)
     return _flammability_raw(fuel, T)

@@ -13,7 +13,8 @@ from fuelsys.arrays import as_float as _out
 from fuelsys.errors import FuelsysInputError, ValidityWarning, warn_validity
 from fuelsys.flow.fittings import CRANE_BEND_R_OVER_D
 from fuelsys.fuels.base import P_ATM
-from fuelsys.vaporiser._common import as_points, require_positive
+from fuelsys.arrays import checked_array
+from fuelsys.vaporiser._common import as_points
 from fuelsys.vaporiser._march import wall_points, wall_shape
 from fuelsys.vaporiser._solve import Points, Problem, Settings, remarch, solve
 from fuelsys.vaporiser.constants import BEND_R_OVER_D, COKING_LIMIT, N_STEPS, N_TABLE
@@ -240,7 +241,7 @@ def _check_operating(bore, heated_length, fuel_flow, air_flow, pressure, t_air_i
     if np.any(~np.isfinite(L_in)) or np.any(L_in <= 0):
         bad = L_in[~(np.isfinite(L_in) & (L_in > 0))].flat[0]
         raise FuelsysInputError(f"heated length must be > 0 (got {bad * 1e3:g} mm)")
-    d_in = require_positive("tube bore", bore, 1e3, "mm")
+    d_in = checked_array(bore, "tube bore", "mm", positive=True, scale=1e3)
     ma_in = np.asarray(air_flow, dtype=float)
     if np.any(~np.isfinite(ma_in)) or np.any(ma_in <= 0):
         bad = ma_in[~(np.isfinite(ma_in) & (ma_in > 0))].flat[0]
@@ -256,8 +257,8 @@ def _check_operating(bore, heated_length, fuel_flow, air_flow, pressure, t_air_i
         raise FuelsysInputError(f"case pressure {bad / 1e5:g} bar abs is below ambient "
                                 f"{ambient_pressure / 1e5:g} bar abs; give the absolute case pressure "
                                 "(ambient or above)")
-    ta_in = require_positive("inlet air temperature", t_air_in, 1.0, "K")
-    tf_in = require_positive("fuel inlet temperature", entry.t_fuel_in, 1.0, "K")
+    ta_in = checked_array(t_air_in, "inlet air temperature", "K", positive=True)
+    tf_in = checked_array(entry.t_fuel_in, "fuel inlet temperature", "K", positive=True)
     if entry.needle_od is not None:
         dn = np.asarray(entry.needle_od, dtype=float)
         if np.any(dn >= d_in):
@@ -282,8 +283,7 @@ def _legs_in(L_in, d_in, wall, tube):
             bad = L2_in[~(np.isfinite(L2_in) & (L2_in > 0))].flat[0]
             raise FuelsysInputError(f"return length must be > 0 (got {bad * 1e3:g} mm)")
         legs_in.append((L2_in, wall if tube.return_wall is None else tube.return_wall))
-        rd_in = BEND_R_OVER_D * d_in if tube.bend_radius is None else require_positive(
-            "bend radius", tube.bend_radius, 1e3, "mm")
+        rd_in = BEND_R_OVER_D * d_in if tube.bend_radius is None else checked_array(tube.bend_radius, "bend radius", "mm", positive=True, scale=1e3)
     elif tube.return_length is not None or tube.return_wall is not None or tube.bend_radius is not None:
         raise FuelsysInputError("return_length, return_wall and bend_radius belong to shape='return'")
     return legs_in, rd_in
@@ -312,12 +312,11 @@ def _problem(operating, wall, fuel, groups):
     if bend_rd is not None:
         warn_validity("Crane bend table", "bend radius / bore", bend_rd, CRANE_BEND_R_OVER_D[0],
                       CRANE_BEND_R_OVER_D[-1], "-")
-    inner = None if march.inner_htc is None else as_points(out_shape, require_positive(
-        "inner heat-transfer coefficient", march.inner_htc, 1.0, "W/(m² K)"))[0]
+    inner = None if march.inner_htc is None else as_points(out_shape, checked_array(march.inner_htc, "inner heat-transfer coefficient", "W/(m² K)", positive=True))[0]
     D_given = None if entry.droplet_diameter is None else as_points(
-        out_shape, require_positive("droplet diameter", entry.droplet_diameter, 1e6, "µm"))[0]
+        out_shape, checked_array(entry.droplet_diameter, "droplet diameter", "µm", positive=True, scale=1e6))[0]
     NB = None if entry.needle_bore is None else as_points(
-        out_shape, require_positive("needle bore", entry.needle_bore, 1e3, "mm"))[0]
+        out_shape, checked_array(entry.needle_bore, "needle bore", "mm", positive=True, scale=1e3))[0]
     points = Points(fuel=fuel, d=d, legs=legs, bend_rd=bend_rd, m_air=m_air, m_liq=m_liq, P0=P0, Ta=Ta,
                     Tfuel=Tfuel, inner=inner, D_given=D_given, NB=NB)
     return Problem(points=points, settings=settings), out_shape

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from fuelsys.errors import FuelsysInputError
-from fuelsys.vaporiser._common import require_positive
+from fuelsys.arrays import checked_array
 from fuelsys.vaporiser.constants import WALL_CONDUCTIVITY, WALL_EMISSIVITY, WALL_THICKNESS
 
 
@@ -38,7 +38,7 @@ class WallProfile:
         if t.shape[-1:] != x.shape:
             raise FuelsysInputError(f"wall profile needs one temperature per position ({x.size}), "
                                     f"got shape {t.shape}")
-        require_positive("wall temperature", t, 1.0, "K")
+        checked_array(t, "wall temperature", "K", positive=True)
 
 
 @dataclass(frozen=True)
@@ -74,7 +74,7 @@ class FlameSide:
     conductivity: object = WALL_CONDUCTIVITY
 
     def __post_init__(self):
-        require_positive("flame gas temperature", self.gas_temperature, 1.0, "K")
+        checked_array(self.gas_temperature, "flame gas temperature", "K", positive=True)
         h = np.asarray(self.h_out, dtype=float)
         if np.any(~np.isfinite(h)) or np.any(h < 0):
             raise FuelsysInputError("outer heat-transfer coefficient must be >= 0 [W/(m² K)]")
@@ -82,8 +82,8 @@ class FlameSide:
             e = np.asarray(e, dtype=float)
             if np.any(~np.isfinite(e)) or np.any(e < 0) or np.any(e > 1):
                 raise FuelsysInputError(f"{name} must be within 0..1 (got {np.ravel(e)[0]:g})")
-        require_positive("wall thickness", self.thickness, 1e3, "mm")
-        require_positive("wall conductivity", self.conductivity, 1.0, "W/(m K)")
+        checked_array(self.thickness, "wall thickness", "mm", positive=True, scale=1e3)
+        checked_array(self.conductivity, "wall conductivity", "W/(m K)", positive=True)
         if np.all(h == 0) and np.all(np.asarray(self.emissivity_gas, dtype=float) == 0):
             raise FuelsysInputError("flame side needs an outer heat-transfer coefficient > 0 or a flame "
                                     "emissivity > 0 (both are 0: no heat reaches the tube)")
