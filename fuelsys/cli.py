@@ -43,11 +43,12 @@ def property_tables(out=None) -> None:
     out = sys.stdout if out is None else out
     import numpy as np
 
+    from fuelsys.constants import P_ATM, T0_C
     from fuelsys.fuels import get_fuel
 
     ker = get_fuel("kerosene")
     t_c = np.arange(-40.0, 151.0, 10.0)
-    T = t_c + 273.15
+    T = t_c + T0_C
     cols = [
         ("T [°C]", t_c, "{:.0f}"),
         ("density [kg/m³]", ker.density(T), "{:.1f}"),
@@ -71,7 +72,7 @@ def property_tables(out=None) -> None:
     cols = [("T [°C]", t_can, "{:.0f}")]
     for n in names:
         g = gases.get_gas(n)
-        cols.append((f"{n} [bar gauge]", g.canister_pressure(t_can + 273.15) / 1e5 - 1.01325, "{:.2f}"))
+        cols.append((f"{n} [bar gauge]", (g.canister_pressure(t_can + T0_C) - P_ATM) / 1e5, "{:.2f}"))
     out.write("\nGas canister pressure (saturated liquid in the canister, CoolProp reference equations)\n\n")
     rows = [[fmt.format(v) for _, vals, fmt in cols for v in [vals[i]]] for i in range(t_can.size)]
     _print_table(rows, [c[0] for c in cols], out)
