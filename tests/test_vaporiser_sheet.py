@@ -145,3 +145,54 @@ def test_verdict_levels_follow_the_march_and_cautions_stay_cautions():
             break
     else:
         pytest.fail("no fuel flow in the sweep gave a small dew margin")
+
+
+# -- the fuel's temperature at the needle (issue 12) and ranges of operating points (issue 17) ----------
+
+def test_fuel_temperature_at_the_needle_is_an_optional_argument():
+    default = call("FS_VAPORISER", *ARGS, 0, "exit_c")
+    assert call("FS_VAPORISER", *ARGS, 0, "exit_c", "straight", 25) == default  # default as before: 25 °C
+    warm = call("FS_VAPORISER", *ARGS, 0, "exit_c", "straight", 60)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", ValidityWarning)
+        core = vap.vaporiser(6e-3, 0.15, 30e-3 / 60, 4e-3, 3e5, 473.15, 873.15, get_fuel("kerosene"),
+                             t_fuel_in=333.15)
+    assert warm == pytest.approx(core.exit_temperature - 273.15, rel=1e-12)
+    assert warm > default  # warmer fuel brings more enthalpy in (energy balance)
+    rows = call("FS_VAPORISER_PROFILE", *ARGS, 0, 3, "straight", 60)
+    assert rows[-1][1] == pytest.approx(warm, rel=1e-12)
+    out = call("FS_VAPORISER", *ARGS, 0, "exit_c", "straight", 400)
+    assert is_error(out) and "fuel inlet temperature must be within" in out
+
+
+def test_a_range_of_operating_points_equals_single_cells():
+    fuel = [[12], [25], [40], [55]]
+    air = [[2.0], [3.0], [4.0], [4.5]]
+    t3 = [[90], [140], [190], [220]]
+    column = call("FS_VAPORISER", 6, 150, fuel, air, 3, t3, 600, "kerosene", 0, "dew_margin_k")
+    table = call("FS_VAPORISER", 6, 150, fuel, air, 3, t3, 600, "kerosene")
+    assert len(column) == 4 and all(len(row) == 1 for row in column)
+    assert all(len(row) == 5 for row in table)
+    for i in range(4):
+        single = call("FS_VAPORISER", 6, 150, fuel[i][0], air[i][0], 3, t3[i][0], 600, "kerosene")
+        for row_batch, row_one in zip(table, single):
+            assert row_batch[0] == row_one[0]
+            if isinstance(row_one[1], float):
+                assert row_batch[i + 1] == pytest.approx(row_one[1], rel=1e-9, abs=1e-9), row_one[0]
+            else:
+                assert row_batch[i + 1].split(":")[0] == row_one[1].split(":")[0]
+        assert column[i][0] == pytest.approx(dict(single)["dew_margin_k"], rel=1e-9)
+
+
+def test_profile_over_a_range_numbers_its_points():
+    rows = call("FS_VAPORISER_PROFILE", 6, [[100], [150]], 30, 4, 3, 200, 600, "kerosene", 0, 3)
+    assert rows[0][0] == "point" and len(rows) == 1 + 2 * 3
+    assert [r[0] for r in rows[1:]] == [1, 1, 1, 2, 2, 2]
+    assert rows[3][1] == pytest.approx(100.0) and rows[6][1] == pytest.approx(150.0)
+    one = call("FS_VAPORISER_PROFILE", 6, 150, 30, 4, 3, 200, 600, "kerosene", 0, 3)
+    assert rows[6][1:] == pytest.approx(one[3], rel=1e-9)
+
+
+def test_ranges_of_different_lengths_are_refused():
+    out = call("FS_VAPORISER", 6, 150, [[20], [30], [40]], [[4], [5]], 3, 200, 600, "kerosene", 0, "exit_c")
+    assert is_error(out) and "air_g_s holds 2 values; give one, or 3" in out

@@ -219,6 +219,8 @@ def _range_arg(arg: catalogue.Arg, value) -> np.ndarray:
     are positions (needle 3, test point 5) and dropping one would move every
     later value to the wrong row.
     """
+    if not _is_range(value) and _blank(value):
+        raise CellError(f"{arg.name} is empty; a number in {arg.unit} is required")
     grid = _as_grid(value) if _is_range(value) else [[value]]
     flat = [v for row in grid for v in row]
     while flat and _blank(flat[-1]):

@@ -107,7 +107,8 @@ from fuelsys.vaporiser.constants import (BEND_R_OVER_D, CD_TUBE_INLET, COKING_LI
                                          ENERGY_TOLERANCE, MACH_LIMIT, N_STEPS, N_TABLE, STEP_TOLERANCE_K,
                                          T_VAPOUR_CP_MAX, TABLE_FLASH_SPAN_K, TABLE_KNEE_K, TABLE_UPPER_STEP_K,
                                          TURBULENCE_INTENSITY, VALIDITY, WALL_CONDUCTIVITY, WALL_EMISSIVITY,
-                                         WALL_THICKNESS, WET_SHARE)
+                                         WALL_THICKNESS, WET_SHARE, T_GAS_MIN, T_GAS_MAX, T_MARCH_MAX,
+                                         N_STEPS_MAX, N_TABLE_MAX, TABLE_UPPER_MAX)
 from fuelsys.vaporiser.flame import (FLAME_SPEED_DEFAULT, FLAME_SPEED_METHODS, FLAME_SPEED_SURROGATE,
                                      FLAMMABILITY_LIMITS, GULDER_CONSTANTS, MK_CONSTANTS, flammability_limits,
                                      gulder_1984, laminar_flame_speed, metghalchi_keck_1982)
@@ -126,7 +127,7 @@ __all__ = [
     "N_STEPS", "N_TABLE", "TABLE_KNEE_K", "TABLE_UPPER_STEP_K", "TABLE_FLASH_SPAN_K", "CD_TUBE_INLET",
     "COKING_LIMIT", "DEW_MARGIN_MIN_K", "T_VAPOUR_CP_MAX", "MACH_LIMIT", "WET_SHARE", "STEP_TOLERANCE_K",
     "ENERGY_TOLERANCE", "WALL_EMISSIVITY", "WALL_CONDUCTIVITY", "WALL_THICKNESS", "TURBULENCE_INTENSITY",
-    "VALIDITY",
+    "VALIDITY", "T_GAS_MIN", "T_GAS_MAX", "T_MARCH_MAX", "N_STEPS_MAX", "N_TABLE_MAX", "TABLE_UPPER_MAX",
 ]
 
 # the package's own public functions and classes are documented and found as fuelsys.vaporiser.<name>

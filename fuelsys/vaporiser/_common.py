@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import numpy as np
 
+from fuelsys.constants import T0_C
+from fuelsys.errors import FuelsysInputError
 
 
 def family(fuel) -> str:
@@ -37,3 +39,14 @@ def flag(flags, mask, text):
         if text not in flags[i]:
             flags[i].append(text)
 
+
+
+def require_within(name, value, low, high, why):
+    """``value`` [K] as a float array; refuse NaN and values outside ``low..high`` [K], naming the range in °C."""
+    v = np.asarray(value, dtype=float)
+    ok = np.isfinite(v) & (v >= low) & (v <= high)
+    if not np.all(ok):
+        bad = v[~ok].flat[0]
+        raise FuelsysInputError(f"{name} must be within {low - T0_C:.1f}..{high - T0_C:.1f} °C, {why} "
+                                f"(got {bad - T0_C:g} °C)")
+    return v

@@ -15,7 +15,7 @@ import numpy as np
 from fuelsys import heat, thermo
 from fuelsys.errors import FuelsysInputError, ValidityWarning
 from fuelsys.vaporiser._common import oil_share
-from fuelsys.vaporiser.constants import T_VAPOUR_CP_MAX, TABLE_FLASH_SPAN_K, TABLE_UPPER_STEP_K
+from fuelsys.vaporiser.constants import TABLE_UPPER_MAX, T_VAPOUR_CP_MAX, TABLE_FLASH_SPAN_K, TABLE_UPPER_STEP_K
 
 
 class Tables:
@@ -50,6 +50,8 @@ class Tables:
         # and a point's surplus nodes run on past its hottest wall
         own = (t_hi - t_knee) / n_upper_min
         step = np.minimum(own, TABLE_UPPER_STEP_K)
+        # never more than TABLE_UPPER_MAX nodes above the knee: a wider spacing instead (bounded memory)
+        step = np.maximum(step, (t_hi - t_knee) / TABLE_UPPER_MAX)
         n_upper = int(max(n_upper_min, np.max(np.ceil((t_hi - t_knee) / step - 1e-9))))
         self.nd, self.ns = n_dense, n_upper
         self.nT = n_dense + n_upper

@@ -62,3 +62,18 @@ VALIDITY = {
 }
 #: default bend radius of a return-bend vaporiser, over its bore (our assumption)
 BEND_R_OVER_D = 2.0
+
+# -- bounds of the inputs (issue: no input may make memory or time grow without limit) ---------------------
+#: lowest temperature of the gas model: the NASA polynomials of fuelsys.thermo start at 200 K (McBride et al.,
+#: NASA/TP-2002-211556) [K]
+T_GAS_MIN = 200.0
+#: highest temperature of the gas model (NASA polynomials, 6000 K): the flame side's gas temperature [K]
+T_GAS_MAX = 6000.0
+#: highest inlet-air and wall temperature of the march: the top of the fuel vapour's heat capacities [K]
+T_MARCH_MAX = T_VAPOUR_CP_MAX
+#: most axial steps per leg, and most nodes per piece of the enthalpy tables [-]
+N_STEPS_MAX = 2000
+N_TABLE_MAX = 2000
+#: most nodes of a table's upper part: past it the spacing widens instead (the span the temperature bounds
+#: allow, 200-6000 K at TABLE_UPPER_STEP_K, needs 1160) [-]
+TABLE_UPPER_MAX = 1200

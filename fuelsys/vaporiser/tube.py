@@ -14,11 +14,13 @@ from fuelsys.errors import FuelsysInputError, ValidityWarning, warn_validity
 from fuelsys.flow.fittings import CRANE_BEND_R_OVER_D
 from fuelsys.fuels.base import P_ATM
 from fuelsys.arrays import checked_array
-from fuelsys.vaporiser._common import as_points
+from fuelsys.vaporiser._common import as_points, require_within
 from fuelsys.vaporiser._march import wall_points, wall_shape
 from fuelsys.vaporiser._solve import Points, Problem, Settings, remarch, solve
-from fuelsys.vaporiser.constants import BEND_R_OVER_D, COKING_LIMIT, N_STEPS, N_TABLE
+from fuelsys.vaporiser.constants import (BEND_R_OVER_D, COKING_LIMIT, N_STEPS, N_STEPS_MAX, N_TABLE, N_TABLE_MAX,
+                                         T_GAS_MIN, T_MARCH_MAX)
 from fuelsys.vaporiser.flame import FLAME_SPEED_DEFAULT, FLAME_SPEED_METHODS
+from fuelsys.vaporiser.walls import FlameSide, WallProfile
 
 
 @dataclass
@@ -219,8 +221,8 @@ def _option_groups(options):
 def _check_settings(march, margins):
     """The call's settings, checked."""
     n_steps = int(march.n_steps)
-    if n_steps < 4 or n_steps % 2:
-        raise FuelsysInputError(f"n_steps must be an even whole number >= 4 (got {n_steps})")
+    if n_steps < 4 or n_steps % 2 or n_steps > N_STEPS_MAX:
+        raise FuelsysInputError(f"n_steps must be an even whole number within 4..{N_STEPS_MAX} (got {n_steps})")
     if march.laminar not in heat.LAMINAR_METHODS:
         raise FuelsysInputError(f"laminar method must be one of {', '.join(heat.LAMINAR_METHODS)} "
                                 f"(got {march.laminar!r})")
@@ -228,15 +230,35 @@ def _check_settings(march, margins):
         raise FuelsysInputError(f"flame-speed method must be one of {', '.join(FLAME_SPEED_METHODS)} "
                                 f"(got {margins.flame_speed_method!r})")
     n_table = tuple(int(n) for n in march.n_table)
-    if len(n_table) != 2 or n_table[0] < 4 or n_table[1] < 2:
-        raise FuelsysInputError(f"n_table must be (>= 4, >= 2) nodes (got {n_table})")
+    if len(n_table) != 2 or n_table[0] < 4 or n_table[1] < 2 or max(n_table) > N_TABLE_MAX:
+        raise FuelsysInputError(f"n_table must be (4..{N_TABLE_MAX}, 2..{N_TABLE_MAX}) nodes (got {n_table})")
     return Settings(n_steps=n_steps, n_table=n_table, laminar=march.laminar,
                     flame_speed_method=margins.flame_speed_method, coking_limit=margins.coking_limit,
                     ambient_pressure=margins.ambient_pressure, check_steps=march.check_steps)
 
 
-def _check_operating(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, entry, ambient_pressure):
+#: why the inlet air and the wall are bounded where they are (the message of a refusal)
+RANGE_WHY = ("the fuel model's lowest temperature (or the gas polynomials' 200 K) to the top of the fuel-vapour "
+             "heat capacities")
+
+
+def _t_low(fuel):
+    """Lowest inlet-air and wall temperature of the march: the gas polynomials' and the fuel model's [K]."""
+    return max(T_GAS_MIN, float(getattr(fuel, "t_min", T_GAS_MIN)))
+
+
+def _check_walls(legs_in, t_low):
+    """Refuse given wall temperatures outside the march's range (flame-side gas is checked by FlameSide)."""
+    for _, w in legs_in:
+        if isinstance(w, WallProfile):
+            require_within("wall temperature", w.temperature, t_low, T_MARCH_MAX, RANGE_WHY)
+        elif not isinstance(w, FlameSide):
+            require_within("wall temperature", w, t_low, T_MARCH_MAX, RANGE_WHY)
+
+
+def _check_operating(bore, heated_length, fuel_flow, air_flow, pressure, t_air_in, entry, ambient_pressure, fuel):
     """Operating-point inputs as float arrays (unbroadcast), refused with a message where impossible."""
+    t_low = _t_low(fuel)
     L_in = np.asarray(heated_length, dtype=float)
     if np.any(~np.isfinite(L_in)) or np.any(L_in <= 0):
         bad = L_in[~(np.isfinite(L_in) & (L_in > 0))].flat[0]
@@ -257,8 +279,13 @@ def _check_operating(bore, heated_length, fuel_flow, air_flow, pressure, t_air_i
         raise FuelsysInputError(f"case pressure {bad / 1e5:g} bar abs is below ambient "
                                 f"{ambient_pressure / 1e5:g} bar abs; give the absolute case pressure "
                                 "(ambient or above)")
-    ta_in = checked_array(t_air_in, "inlet air temperature", "K", positive=True)
-    tf_in = checked_array(entry.t_fuel_in, "fuel inlet temperature", "K", positive=True)
+    ta_in = require_within("inlet air temperature", t_air_in, t_low, T_MARCH_MAX, RANGE_WHY)
+    tf_in = require_within("fuel inlet temperature", entry.t_fuel_in, float(fuel.t_min), float(fuel.t_max),
+                           f"the liquid range of {getattr(fuel, 'name', 'the fuel')}")
+    p_max = float(getattr(fuel, "p_max", np.inf))
+    if np.any(p_in >= p_max):
+        raise FuelsysInputError(f"case pressure {np.max(p_in) / 1e5:g} bar abs is above the fuel model's range: "
+                                f"allowed < {p_max / 1e5:.3g} bar abs (the critical pressure of its lightest part)")
     if entry.needle_od is not None:
         dn = np.asarray(entry.needle_od, dtype=float)
         if np.any(dn >= d_in):
@@ -293,8 +320,10 @@ def _problem(operating, wall, fuel, groups):
     """The :class:`Problem` of one call on flat points, and the operating points' shape."""
     entry, march = groups["entry"], groups["march"]
     settings = _check_settings(march, groups["margins"])
-    d_in, L_in, mf_in, ma_in, p_in, ta_in, tf_in = _check_operating(*operating, entry, settings.ambient_pressure)
+    d_in, L_in, mf_in, ma_in, p_in, ta_in, tf_in = _check_operating(*operating, entry, settings.ambient_pressure,
+                                                                     fuel)
     legs_in, rd_in = _legs_in(L_in, d_in, wall, groups["tube"])
+    _check_walls(legs_in, _t_low(fuel))
     extras = [a for a in (entry.droplet_diameter, entry.needle_bore, march.inner_htc) if a is not None]
     if rd_in is not None:
         extras += [legs_in[1][0], rd_in]

@@ -8,7 +8,8 @@ import numpy as np
 
 from fuelsys.errors import FuelsysInputError
 from fuelsys.arrays import checked_array
-from fuelsys.vaporiser.constants import WALL_CONDUCTIVITY, WALL_EMISSIVITY, WALL_THICKNESS
+from fuelsys.vaporiser._common import require_within
+from fuelsys.vaporiser.constants import T_GAS_MAX, T_GAS_MIN, WALL_CONDUCTIVITY, WALL_EMISSIVITY, WALL_THICKNESS
 
 
 @dataclass(frozen=True)
@@ -74,7 +75,8 @@ class FlameSide:
     conductivity: object = WALL_CONDUCTIVITY
 
     def __post_init__(self):
-        checked_array(self.gas_temperature, "flame gas temperature", "K", positive=True)
+        require_within("flame gas temperature", self.gas_temperature, T_GAS_MIN, T_GAS_MAX,
+                       "the range of the gas polynomials")
         h = np.asarray(self.h_out, dtype=float)
         if np.any(~np.isfinite(h)) or np.any(h < 0):
             raise FuelsysInputError("outer heat-transfer coefficient must be >= 0 [W/(m² K)]")

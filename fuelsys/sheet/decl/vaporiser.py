@@ -1,27 +1,28 @@
 """Spreadsheet functions for the vaporiser tube.
 
-Units at this face: bores and lengths in mm, air in g/s, fuel in g/min,
-case pressure in bar abs, temperatures in °C, times in ms, velocities in m/s,
-the tube's pressure drop in mbar and the oil left behind in g/h.  The wall is
+Units at this face (declared once, converted by the adapter): bores and
+lengths in mm, air in g/s, fuel in g/min, case pressure in bar abs,
+temperatures in °C, times in ms, velocities in m/s, the tube's pressure drop
+in mbar and the oil left behind in g/h.  The bodies work in SI.  The wall is
 one uniform inner-wall temperature; the core API
 (:func:`fuelsys.vaporiser.vaporiser`) also takes a profile or flame-side
 conditions.
+
+FS_VAPORISER and FS_VAPORISER_PROFILE take a range over any operating-point
+argument (bore, length, fuel, air, case pressure, air, wall and fuel
+temperatures): the ranges are read in reading order, each holds one value
+or as many as the longest, and every point is marched in one vectorised call.
 """
 
 from __future__ import annotations
 
+import dataclasses
 import math
-import warnings
 
 import numpy as np
 
-from fuelsys.errors import FuelsysInputError, ValidityWarning
-from fuelsys.fuels.base import T0_C
-from fuelsys.sheet.catalogue import Arg, Returns, spreadsheet_function
-
-_G_MIN = 1e-3 / 60.0   # 1 g/min in kg/s
-_G_S = 1e-3            # 1 g/s in kg/s
-_BAR = 1e5
+from fuelsys.errors import FuelsysInputError
+from fuelsys.sheet.catalogue import Arg, Returns, from_si, spreadsheet_function
 
 _BORE = Arg("tube_bore_mm", "number", "mm", "vaporiser tube inside diameter", gt=0, high=100)
 _LENGTH = Arg("heated_length_mm", "number", "mm", "heated length of the tube", gt=0, high=5000)
@@ -34,6 +35,17 @@ _FUEL = Arg("fuel", "fuel", "-", "built-in fuel name (kerosene, ...) or a fuel t
 _OIL = Arg("oil_pct", "number", "% vol", "turbine oil mixed into the fuel", default=0.0, low=0, high=20)
 _SHAPE = Arg("shape", "text", "-", "straight, or return: a second heated leg of the same length and wall after "
              "a 180° bend (radius 2 bores)", default="straight", choices=("straight", "return"))
+_FUEL_T = Arg("fuel_c", "number", "°C", "fuel temperature at the needle exit; empty for 25 °C", default=25.0,
+              gt=-273.15)
+
+
+def _points(arg):
+    """The same argument taking a range of operating points (read in reading order)."""
+    return dataclasses.replace(arg, kind="range")
+
+
+#: the operating-point arguments of FS_VAPORISER and FS_VAPORISER_PROFILE, each a range or one cell
+_POINT_ARGS = [_points(a) for a in (_BORE, _LENGTH, _FUEL_FLOW, _AIR, _CASE, _T3, _WALL)]
 
 _SOURCE = ("axial march of the air-fuel mixture's enthalpy with equilibrium evaporation from the fuel "
            "model's flash (air inert); wall heat by Gnielinski (1976) turbulent / Stephan (1959) laminar "
@@ -71,53 +83,68 @@ _ITEMS = {
 }
 
 
-def _item_values(r) -> dict:
-    """Cell values of every item from a scalar VaporiserResult."""
-    life = r.droplet_lifetime * 1e3 if math.isfinite(r.droplet_lifetime) else "never (no evaporation at exit)"
-    margin = r.flashback_margin if math.isfinite(r.flashback_margin) else "not flammable anywhere"
-    wet = r.max_wet_wall - T0_C if math.isfinite(r.max_wet_wall) else "none (no liquid fuel on the wall)"
-    dew = r.dew_point - T0_C if math.isfinite(r.dew_point) else "no fuel"
-    margin_k = r.dew_margin if math.isfinite(r.dew_margin) else "no fuel"
+def _finite_or(value, unit, text):
+    """``value`` in the item's unit, or ``text`` where it is not finite."""
+    return from_si(value, unit) if math.isfinite(value) else text
+
+
+def _item_values(r, i) -> dict:
+    """Cell values of every item of point ``i`` of a flat VaporiserResult."""
+    def at(name):
+        v = np.ravel(getattr(r, name))[i]
+        return v.item() if hasattr(v, "item") else v
+
     return {
-        "vaporised_pct": r.vapour_fraction * 100.0,
-        "exit_c": r.exit_temperature - T0_C,
-        "dew_point_c": dew,
-        "dew_margin_k": margin_k,
-        "residence_ms": r.residence_time * 1e3,
-        "droplet_um": r.droplet_diameter * 1e6,
-        "droplet_life_ms": life,
-        "tube_phi": r.tube_phi,
-        "vapour_phi": r.exit_vapour_phi,
-        "flammable": "yes" if r.flammable else "no",
-        "exit_velocity_m_s": r.exit_velocity,
-        "flame_speed_m_s": r.flame_speed,
-        "turbulent_flame_speed_m_s": r.turbulent_flame_speed,
-        "flashback_margin": margin,
-        "max_wet_wall_c": wet,
-        "max_wall_c": r.max_wall - T0_C,
-        "oil_residue_g_h": r.oil_residue * 3.6e6,
-        "dp_mbar": r.pressure_drop / 100.0,
-        "heat_w": r.heat_in,
-        "energy_error_pct": r.energy_error * 100.0,
-        "step_error_k": r.step_error_temperature,
-        "reynolds_exit": r.reynolds_exit,
-        "verdict": r.verdict,
-        "validity": r.validity or "ok",
+        "vaporised_pct": from_si(at("vapour_fraction"), "%"),
+        "exit_c": from_si(at("exit_temperature"), "°C"),
+        "dew_point_c": _finite_or(at("dew_point"), "°C", "no fuel"),
+        "dew_margin_k": _finite_or(at("dew_margin"), "K", "no fuel"),
+        "residence_ms": from_si(at("residence_time"), "ms"),
+        "droplet_um": from_si(at("droplet_diameter"), "µm"),
+        "droplet_life_ms": _finite_or(at("droplet_lifetime"), "ms", "never (no evaporation at exit)"),
+        "tube_phi": at("tube_phi"),
+        "vapour_phi": at("exit_vapour_phi"),
+        "flammable": "yes" if at("flammable") else "no",
+        "exit_velocity_m_s": at("exit_velocity"),
+        "flame_speed_m_s": at("flame_speed"),
+        "turbulent_flame_speed_m_s": at("turbulent_flame_speed"),
+        "flashback_margin": _finite_or(at("flashback_margin"), "-", "not flammable anywhere"),
+        "max_wet_wall_c": _finite_or(at("max_wet_wall"), "°C", "none (no liquid fuel on the wall)"),
+        "max_wall_c": from_si(at("max_wall"), "°C"),
+        "oil_residue_g_h": from_si(at("oil_residue"), "g/h"),
+        "dp_mbar": from_si(at("pressure_drop"), "mbar"),
+        "heat_w": at("heat_in"),
+        "energy_error_pct": from_si(at("energy_error"), "%"),
+        "step_error_k": at("step_error_temperature"),
+        "reynolds_exit": at("reynolds_exit"),
+        "verdict": at("verdict"),
+        "validity": at("validity") or "ok",
     }
 
 
-def _run(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel, oil_pct, shape):
+def _broadcast_points(names, arrays):
+    """Operating-point ranges as flat arrays of one length: each holds 1 value or as many as the longest."""
+    n = max(a.size for a in arrays)
+    for name, a in zip(names, arrays):
+        if a.size not in (1, n):
+            raise FuelsysInputError(f"{name} holds {a.size} values; give one, or {n} like the longest range "
+                                    "(one per operating point)")
+    return n, [np.broadcast_to(a, (n,)) for a in arrays]
+
+
+def _run(points, fuel, oil_pct, shape, T_fuel):
+    """The core march on every operating point at once (SI); returns (VaporiserResult, point count)."""
     from fuelsys import vaporiser as vap
 
     if not (math.isfinite(float(getattr(fuel, "stoich_far", math.nan)))
             and math.isfinite(float(getattr(fuel, "lhv", math.nan)))):
         raise FuelsysInputError(f"fuel: {getattr(fuel, 'name', 'this fluid')} is not a fuel "
                                 "(no heating value); use kerosene or a fuel table")
+    names = [a.name for a in _POINT_ARGS] + [_FUEL_T.name]
+    n, (bore, length, m_fuel, m_air, P, T3, T_wall, T_f) = _broadcast_points(
+        names, [np.ravel(np.asarray(p, dtype=float)) for p in (*points, T_fuel)])
     fuel = fuel.with_oil(oil_pct)
-    with warnings.catch_warnings():
-        warnings.simplefilter("ignore", ValidityWarning)
-        return vap.vaporiser(tube_bore_mm * 1e-3, heated_length_mm * 1e-3, fuel_g_min * _G_MIN, air_g_s * _G_S,
-                             case_bar_abs * _BAR, t3_c + T0_C, wall_c + T0_C, fuel, shape=shape)
+    return vap.vaporiser(bore, length, m_fuel, m_air, P, T3, T_wall, fuel, shape=shape, t_fuel_in=T_f), n
 
 
 @spreadsheet_function(
@@ -131,152 +158,66 @@ def _run(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c
     source="isentropic (compressible) orifice flow times a discharge coefficient, case to liner "
            "(Anderson, Modern Compressible Flow 3rd ed. ch. 5; Lefebvre & Ballal, Gas Turbine Combustion "
            "3rd ed. ch. 4; cd 0.6 for a plain inlet, from memory)",
+    si=True,
     example=(6, 4, 2.2, 150),
 )
-def fs_tube_air(tube_bore_mm, liner_dp_pct, case_bar_abs, t3_c, cd):
-    """Air into one tube [g/s].
-
-    Parameters
-    ----------
-    tube_bore_mm : array_like
-        Tube bore [mm]
-    liner_dp_pct : array_like
-        Liner pressure drop [% of case pressure]
-    case_bar_abs : array_like
-        Case pressure [bar abs]
-    t3_c : array_like
-        Compressor exit temperature [°C]
-    cd : array_like
-        Discharge coefficient [-]
-
-    Returns
-    -------
-    ndarray
-        Air flow [g/s]
-
-    References
-    ----------
-    :func:`fuelsys.vaporiser.tube_air_flow`.
-    """
+def fs_tube_air(bore, dp_fraction, P, T, cd):
     from fuelsys import vaporiser as vap
 
-    return np.asarray(vap.tube_air_flow(np.asarray(tube_bore_mm) * 1e-3, np.asarray(liner_dp_pct) / 100.0,
-                                        np.asarray(case_bar_abs) * _BAR, np.asarray(t3_c) + T0_C, cd)) / _G_S
+    return vap.tube_air_flow(bore, dp_fraction, P, T, cd)
 
 
 @spreadsheet_function(
     name="FS_VAPORISER", category="vaporiser",
     summary="Vaporiser tube check: vaporised fuel, dew-point, droplet, flashback and coking margins, verdict",
-    args=[_BORE, _LENGTH, _FUEL_FLOW, _AIR, _CASE, _T3, _WALL, _FUEL, _OIL,
+    args=[*_POINT_ARGS, _FUEL, _OIL,
           Arg("item", "text", "-", "one result by name; empty for the whole table", default="",
-              choices=tuple(_ITEMS)), _SHAPE],
-    returns=Returns("table", "-", "two columns: item name (unit in the name) and value; or the one item asked for"),
+              choices=tuple(_ITEMS)), _SHAPE, _points(_FUEL_T)],
+    returns=Returns("table", "-", "two columns: item name (unit in the name) and value; or the one item asked "
+                                  "for.  With ranges of operating points: one value column per point, or the "
+                                  "item's column of values, one per point"),
     source=_SOURCE,
-    example=(6, 150, 20, 2, 2.2, 150, 600, "kerosene"),
+    si=True,
+    example=(6, 100, 10, 2, 2.2, 200, 400, "kerosene"),
 )
-def fs_vaporiser(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel, oil_pct,
-                 item, shape):
-    """Vaporiser check as a labelled table, or one item of it.
-
-    Parameters
-    ----------
-    tube_bore_mm : float
-        Tube bore [mm]
-    heated_length_mm : float
-        Heated length [mm]
-    fuel_g_min : float
-        Fuel flow into the tube [g/min]
-    air_g_s : float
-        Air flow through the tube [g/s]
-    case_bar_abs : float
-        Case pressure [bar abs]
-    t3_c : float
-        Compressor exit temperature [°C]
-    wall_c : float
-        Inner wall temperature [°C]
-    fuel : Fuel
-        The fuel [-]
-    oil_pct : float
-        Turbine oil in the fuel [% vol]
-    item : str
-        Item name, or "" for the table [-]
-    shape : str
-        "straight" or "return" [-]
-
-    Returns
-    -------
-    list or float or str
-        Rows [item, value], or the single value [-]
-
-    References
-    ----------
-    :func:`fuelsys.vaporiser.vaporiser`.
-    """
-    r = _run(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel, oil_pct, shape)
-    values = _item_values(r)
+def fs_vaporiser(bore, length, m_fuel, m_air, P, T3, T_wall, fuel, oil_pct, item, shape, T_fuel):
+    r, n = _run((bore, length, m_fuel, m_air, P, T3, T_wall), fuel, oil_pct, shape, T_fuel)
+    values = [_item_values(r, i) for i in range(n)]
     if item:
-        return [[values[item]]]
-    return [[key, values[key]] for key in _ITEMS]
+        return [[v[item]] for v in values]
+    return [[key] + [v[key] for v in values] for key in _ITEMS]
+
+
+_PROFILE_HEADER = ["position_mm", "gas_c", "wall_c", "vaporised_pct", "velocity_m_s"]
 
 
 @spreadsheet_function(
     name="FS_VAPORISER_PROFILE", category="vaporiser",
     summary="Gas and wall temperature, vaporised fuel and velocity along a vaporiser tube, for a chart",
-    args=[_BORE, _LENGTH, _FUEL_FLOW, _AIR, _CASE, _T3, _WALL, _FUEL, _OIL,
+    args=[*_POINT_ARGS, _FUEL, _OIL,
           Arg("points", "number", "-", "rows of the table after its header", default=11, low=2, high=201,
-              integer=True), _SHAPE],
+              integer=True), _SHAPE, _points(_FUEL_T)],
     returns=Returns("table", "-", "header row, then rows of position mm (along the heated legs), gas °C, "
-                                  "wall °C, vaporised %, velocity m/s"),
+                                  "wall °C, vaporised %, velocity m/s; with ranges of operating points, a first "
+                                  "column 'point' numbers each point's rows"),
     source=_SOURCE,
-    example=(6, 150, 20, 2, 2.2, 150, 600, "kerosene"),
+    si=True,
+    example=(6, 100, 10, 2, 2.2, 200, 400, "kerosene"),
 )
-def fs_vaporiser_profile(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel,
-                         oil_pct, points, shape):
-    """Profile along the tube, linearly interpolated from the march's nodes.
-
-    Parameters
-    ----------
-    tube_bore_mm : float
-        Tube bore [mm]
-    heated_length_mm : float
-        Heated length [mm]
-    fuel_g_min : float
-        Fuel flow into the tube [g/min]
-    air_g_s : float
-        Air flow through the tube [g/s]
-    case_bar_abs : float
-        Case pressure [bar abs]
-    t3_c : float
-        Compressor exit temperature [°C]
-    wall_c : float
-        Inner wall temperature [°C]
-    fuel : Fuel
-        The fuel [-]
-    oil_pct : float
-        Turbine oil in the fuel [% vol]
-    points : float
-        Number of rows [-]
-    shape : str
-        "straight" or "return" [-]
-
-    Returns
-    -------
-    list
-        Header row and one row per position along the heated legs [-]
-
-    References
-    ----------
-    :func:`fuelsys.vaporiser.vaporiser` (profile).
-    """
-    r = _run(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, case_bar_abs, t3_c, wall_c, fuel, oil_pct, shape)
+def fs_vaporiser_profile(bore, length, m_fuel, m_air, P, T3, T_wall, fuel, oil_pct, points, shape, T_fuel):
+    r, n = _run((bore, length, m_fuel, m_air, P, T3, T_wall), fuel, oil_pct, shape, T_fuel)
     p = r.profile
-    x = p["position"]
-    at = np.linspace(0.0, x[-1], int(points))
-    cols = [np.interp(at, x, p["gas_temperature"]) - T0_C, np.interp(at, x, p["wall_temperature"]) - T0_C,
-            np.interp(at, x, p["vapour_fraction"]) * 100.0, np.interp(at, x, p["velocity"])]
-    rows = [["position_mm", "gas_c", "wall_c", "vaporised_pct", "velocity_m_s"]]
-    for i in range(at.size):
-        rows.append([float(at[i] * 1e3)] + [float(c[i]) for c in cols])
+    rows = [_PROFILE_HEADER if n == 1 else ["point"] + _PROFILE_HEADER]
+    for i in range(n):
+        x = np.reshape(p["position"], (-1, n))[:, i]
+        at = np.linspace(0.0, x[-1], int(points))
+        cols = [from_si(at, "mm"),
+                from_si(np.interp(at, x, np.reshape(p["gas_temperature"], (-1, n))[:, i]), "°C"),
+                from_si(np.interp(at, x, np.reshape(p["wall_temperature"], (-1, n))[:, i]), "°C"),
+                from_si(np.interp(at, x, np.reshape(p["vapour_fraction"], (-1, n))[:, i]), "%"),
+                np.interp(at, x, np.reshape(p["velocity"], (-1, n))[:, i])]
+        lead = [] if n == 1 else [i + 1]
+        rows += [lead + [float(c[k]) for c in cols] for k in range(at.size)]
     return rows
 
 
@@ -289,41 +230,10 @@ def fs_vaporiser_profile(tube_bore_mm, heated_length_mm, fuel_g_min, air_g_s, ca
     returns=Returns("number", "ms", "residence time of the gas over the length"),
     source="plug flow of an ideal gas (air plus kerosene vapour, molar mass of the built-in kerosene), "
            "temperature and vaporised fuel linear along the tube; 8-point Gauss-Legendre quadrature",
+    si=True,
     example=(6, 150, 2, 20, 2.2, 150),
 )
-def fs_residence_time(tube_bore_mm, heated_length_mm, air_g_s, fuel_g_min, case_bar_abs, t3_c, exit_c):
-    """Residence time [ms].
-
-    Parameters
-    ----------
-    tube_bore_mm : array_like
-        Tube bore [mm]
-    heated_length_mm : array_like
-        Tube length [mm]
-    air_g_s : array_like
-        Air flow [g/s]
-    fuel_g_min : array_like
-        Fuel flow [g/min]
-    case_bar_abs : array_like
-        Pressure in the tube [bar abs]
-    t3_c : array_like
-        Inlet gas temperature [°C]
-    exit_c : array_like or None
-        Exit gas temperature [°C]
-
-    Returns
-    -------
-    ndarray
-        Residence time [ms]
-
-    References
-    ----------
-    :func:`fuelsys.vaporiser.residence_time_estimate`.
-    """
+def fs_residence_time(bore, length, m_air, m_fuel, P, T_in, T_exit):
     from fuelsys import vaporiser as vap
 
-    t_exit = None if exit_c is None else np.asarray(exit_c) + T0_C
-    t = vap.residence_time_estimate(np.asarray(tube_bore_mm) * 1e-3, np.asarray(heated_length_mm) * 1e-3,
-                                    np.asarray(air_g_s) * _G_S, np.asarray(fuel_g_min) * _G_MIN,
-                                    np.asarray(case_bar_abs) * _BAR, np.asarray(t3_c) + T0_C, t_exit)
-    return np.asarray(t) * 1e3
+    return vap.residence_time_estimate(bore, length, m_air, m_fuel, P, T_in, T_exit)
