@@ -62,7 +62,7 @@ def test_air_only_given_h_matches_exponential_solution(monkeypatch, kero):
     r = vap.vaporiser(BORE, LENGTH, 0.0, m, P3, T3, tw, kero, inner_htc=h)
     expect = _incropera_842b(T3, tw, h, math.pi * BORE, LENGTH, m, cp)
     assert r.exit_temperature == pytest.approx(expect, abs=1e-6)
-    assert r.verdict.startswith("no fuel")
+    assert r.verdict.startswith("good: no fuel")
 
 
 @pytest.mark.parametrize("m_air,t_wall,method", [
@@ -298,16 +298,16 @@ def test_oil_residue_and_blend(blend):
     assert r.oil_residue == pytest.approx(0.6e-3 * blend.oil_mass_share, rel=1e-12)
     assert r.oil_residue * 3.6e6 == pytest.approx(0.6e-3 * blend.oil_mass_share * 3.6e6, rel=1e-12)
     assert 0.9 < r.vapour_fraction <= 1.0
-    assert "oil residue" in r.verdict
+    assert "oil residue" in r.cautions and "oil residue" not in r.verdict
 
 
 def test_coking_risk_against_jfot_temperature(kero):
     # ASTM D3241 JFTOT test temperature 260 °C: a fuel-wetted wall above it is flagged
     hot = vap.vaporiser(BORE, 0.15, 1.5e-3, 2e-3, 2e5, 400.0, 700.0, kero)
     assert hot.vapour_fraction < 1 and hot.coking_risk and hot.max_wet_wall == pytest.approx(700.0)
-    assert "coking risk" in hot.verdict
+    assert "coking risk" in hot.cautions
     cool = vap.vaporiser(BORE, 0.15, 1.5e-3, 2e-3, 2e5, 400.0, 500.0, kero)
-    assert not cool.coking_risk
+    assert not cool.coking_risk and "coking" not in cool.cautions  # a caution only where its condition holds
     assert vap.COKING_LIMIT == pytest.approx(533.15)
 
 
@@ -324,7 +324,7 @@ def test_flammability_and_flame_speed_margin(kero):
     # a slow, near-stoichiometric, hot mixture: the flame can sit in the tube
     slow = vap.vaporiser(12e-3, 0.3, 0.08e-3 * 0.068, 0.08e-3, 1.1e5, 500.0, 900.0, kero)
     assert slow.flammable and slow.flashback_margin < 1
-    assert slow.verdict.startswith("poor") and "flashback" in slow.verdict
+    assert slow.verdict.startswith("poor") and "turbulent flame speed" in slow.verdict
 
 
 def test_flame_speed_correlations():
@@ -552,3 +552,37 @@ def test_bend_losses_live_with_the_fittings():
 
     assert vap.crane_return_bend_k is fittings.crane_return_bend_k
     assert fittings.crane_return_bend_k(2.0, 0.02) == vap.crane_return_bend_k(2.0, 0.02)
+
+
+# -- heat-transfer band, short verdicts, per-row cautions (issue 13) -------------------------------------
+
+def test_dew_margin_band_brackets_the_nominal_and_collapses_for_a_given_coefficient(kero):
+    fuel = np.array([0.3e-3, 0.6e-3, 0.9e-3])
+    r = vap.vaporiser(BORE, 0.15, fuel, 3e-3, 3e5, 450.0, 800.0, kero)
+    assert np.all(r.dew_margin_low < r.dew_margin) and np.all(r.dew_margin < r.dew_margin_high)
+    given = vap.vaporiser(BORE, 0.15, fuel, 3e-3, 3e5, 450.0, 800.0, kero, inner_htc=400.0)
+    assert np.array_equal(given.dew_margin_low, given.dew_margin) and np.array_equal(given.dew_margin_high,
+                                                                                       given.dew_margin)
+    for v in r.verdict:
+        assert v.split(":")[0] in ("good", "marginal", "poor") and len(v) <= 100, v
+
+
+def test_bulk_fuel_caution_only_where_liquid_fuel_passes_163_c(kero):
+    # 163 °C (325 °F): bulk-fuel thermal-stability limit of JP-8 / Jet A-1 (Heneghan et al. 1996, from memory)
+    assert vap.BULK_FUEL_LIMIT == pytest.approx(436.15)
+    rich = vap.vaporiser(BORE, 0.3, 1.0e-3, 2e-3, 5e5, 450.0, 900.0, kero)  # long, hot, high case pressure
+    assert rich.max_liquid_fuel_temperature > vap.BULK_FUEL_LIMIT
+    assert "bulk thermal-stability limit" in rich.cautions
+    lean = vap.vaporiser(BORE, 0.15, 0.2e-3, 3e-3, 3e5, 400.0, 650.0, kero)
+    assert not lean.max_liquid_fuel_temperature > vap.BULK_FUEL_LIMIT
+    assert "thermal-stability" not in lean.cautions
+
+
+def test_flashback_on_an_extrapolated_flame_speed_says_it_is_an_estimate(kero):
+    # Gülder (1984) fitted over phi 0.7..1.4 (from memory): a very rich tube's flame speed is an estimate
+    rich = vap.vaporiser(12e-3, 0.3, 0.08e-3 * 0.2, 0.08e-3, 1.1e5, 500.0, 900.0, kero)
+    if rich.flammable:
+        assert rich.flame_speed_estimate == (not 0.7 <= rich.exit_vapour_phi <= 1.4) or rich.flashback_margin > 0
+    slow = vap.vaporiser(12e-3, 0.3, 0.08e-3 * 0.068, 0.08e-3, 1.1e5, 500.0, 900.0, kero)
+    assert "turbulent flame speed" in slow.verdict
+    assert ("estimate" in slow.verdict) == bool(slow.flame_speed_estimate)

@@ -78,6 +78,7 @@ The package, by job
 * :mod:`~fuelsys.vaporiser.walls` -- wall descriptions (profile, flame side);
 * :mod:`~fuelsys.vaporiser.constants` -- settings, thresholds, validity ranges;
 * :mod:`~fuelsys.vaporiser.tube` -- :func:`vaporiser`, its option groups and result;
+* :mod:`~fuelsys.vaporiser.sizing` -- the heated length for a dew-point margin;
 * the march, inside: ``_tables`` (property tables, inlet mixing), ``_march``
   (state, legs, heat transfer, bend), ``_droplets`` (d²-law), ``_margins``
   (wetted wall, flashback, validity, verdicts) and ``_solve`` (one call:
@@ -108,26 +109,30 @@ from fuelsys.vaporiser.constants import (BEND_R_OVER_D, CD_TUBE_INLET, COKING_LI
                                          T_VAPOUR_CP_MAX, TABLE_FLASH_SPAN_K, TABLE_KNEE_K, TABLE_UPPER_STEP_K,
                                          TURBULENCE_INTENSITY, VALIDITY, WALL_CONDUCTIVITY, WALL_EMISSIVITY,
                                          WALL_THICKNESS, WET_SHARE, T_GAS_MIN, T_GAS_MAX, T_MARCH_MAX,
-                                         N_STEPS_MAX, N_TABLE_MAX, TABLE_UPPER_MAX)
+                                         N_STEPS_MAX, N_TABLE_MAX, TABLE_UPPER_MAX, BULK_FUEL_LIMIT,
+                                         HTC_UNCERTAINTY, PROPERTY_RATIO_MIN)
 from fuelsys.vaporiser.flame import (FLAME_SPEED_DEFAULT, FLAME_SPEED_METHODS, FLAME_SPEED_SURROGATE,
                                      FLAMMABILITY_LIMITS, GULDER_CONSTANTS, MK_CONSTANTS, flammability_limits,
                                      gulder_1984, laminar_flame_speed, metghalchi_keck_1982)
 from fuelsys.vaporiser.tube import (OPTION_GROUPS, T_FUEL_DEFAULT, FuelEntry, MarchOptions, MarginOptions,
                                     TubeShape, VaporiserResult, vaporiser)
 from fuelsys.vaporiser.walls import FlameSide, WallProfile
+from fuelsys.vaporiser.sizing import tube_length_for_margin
 
 __all__ = [
     "tube_air_flow", "residence_time_estimate", "AIR_FLOW_METHODS",
     "metghalchi_keck_1982", "gulder_1984", "laminar_flame_speed", "flammability_limits",
     "FLAME_SPEED_DEFAULT", "FLAME_SPEED_METHODS", "FLAME_SPEED_SURROGATE", "FLAMMABILITY_LIMITS",
     "GULDER_CONSTANTS", "MK_CONSTANTS",
-    "WallProfile", "FlameSide", "vaporiser", "VaporiserResult", "FuelEntry", "TubeShape", "MarchOptions",
+    "WallProfile", "FlameSide", "vaporiser", "tube_length_for_margin", "VaporiserResult", "FuelEntry",
+    "TubeShape", "MarchOptions",
     "MarginOptions", "OPTION_GROUPS", "T_FUEL_DEFAULT",
     "crane_return_bend_k", "CRANE_BEND_R_OVER_D", "CRANE_BEND_K_OVER_FT", "BEND_R_OVER_D",
     "N_STEPS", "N_TABLE", "TABLE_KNEE_K", "TABLE_UPPER_STEP_K", "TABLE_FLASH_SPAN_K", "CD_TUBE_INLET",
     "COKING_LIMIT", "DEW_MARGIN_MIN_K", "T_VAPOUR_CP_MAX", "MACH_LIMIT", "WET_SHARE", "STEP_TOLERANCE_K",
     "ENERGY_TOLERANCE", "WALL_EMISSIVITY", "WALL_CONDUCTIVITY", "WALL_THICKNESS", "TURBULENCE_INTENSITY",
     "VALIDITY", "T_GAS_MIN", "T_GAS_MAX", "T_MARCH_MAX", "N_STEPS_MAX", "N_TABLE_MAX", "TABLE_UPPER_MAX",
+    "BULK_FUEL_LIMIT", "HTC_UNCERTAINTY", "PROPERTY_RATIO_MIN",
 ]
 
 # the package's own public functions and classes are documented and found as fuelsys.vaporiser.<name>

@@ -14,6 +14,7 @@ from fuelsys import heat, thermo
 from fuelsys.flow.fittings import crane_return_bend_k
 from fuelsys.arrays import checked_array
 from fuelsys.vaporiser._common import as_points
+from fuelsys.vaporiser.constants import HTC_UNCERTAINTY, PROPERTY_RATIO_MIN
 from fuelsys.vaporiser.walls import FlameSide, WallProfile
 
 
@@ -55,6 +56,8 @@ class Context:
         self.laminar = laminar
         self.inner_htc = inner_htc
         self.M_fuel = M_fuel
+        #: None for the nominal inner heat transfer, "low" or "high" for an end of its uncertainty band
+        self.band = None
 
 
 def gas_props(ctx, pr):
@@ -131,8 +134,12 @@ def transfer(ctx, leg, T, pr, x1, x2, wall_guess):
         tw = wall_at(leg, xm)
     if ctx.inner_htc is None:
         pf = np.where(T < tw, (T / tw) ** 0.45, 1.0)
+        if ctx.band == "high":  # beyond the correction's fitted ratios the upper end does without it
+            pf = np.where(T < PROPERTY_RATIO_MIN * tw, 1.0, pf)
         nu = heat._segment_raw(Re, Pr, leg.x0 + x1, leg.x0 + x2, d, ctx.laminar, pf)
         h = nu * k / d
+        if ctx.band is not None:
+            h = h * (1.0 + HTC_UNCERTAINTY if ctx.band == "high" else 1.0 - HTC_UNCERTAINTY)
     else:
         h = ctx.inner_htc
     if leg.kind == "flame":

@@ -15,7 +15,7 @@ from fuelsys import heat, thermo
 from fuelsys.fuels.base import T0_C
 from fuelsys.vaporiser._common import family, flag, oil_share
 from fuelsys.vaporiser._march import gas_props
-from fuelsys.vaporiser.constants import DEW_MARGIN_MIN_K, TURBULENCE_INTENSITY, VALIDITY, WET_SHARE
+from fuelsys.vaporiser.constants import BULK_FUEL_LIMIT, DEW_MARGIN_MIN_K, TURBULENCE_INTENSITY, VALIDITY, WET_SHARE
 from fuelsys.vaporiser.flame import FLAME_SPEED_METHODS, FLAME_SPEED_SURROGATE, flammability_limits
 
 
@@ -37,8 +37,11 @@ def wetted_wall(setup, pts, nd, coking_limit):
     max_wet = np.where(np.isfinite(max_wet), max_wet, np.nan)
     max_wall = np.maximum(wall_nodes.max(axis=0), mid_wall.max(axis=0))
     coking = np.where(np.isfinite(max_wet), max_wet > coking_limit, False)
+    # liquid fuel (not oil alone) is at the mixture's temperature in the equilibrium march
+    fuel_liquid = has_fuel[None, :] & (xv_nodes < volatile * (1.0 - WET_SHARE))
+    bulk = np.where(fuel_liquid, nd["T"], -np.inf).max(axis=0)
     return {"max_wet": max_wet, "max_wall": max_wall, "coking": coking, "oil": pts.m_liq * oil_w,
-            "fuel_wet": fuel_wet}
+            "fuel_wet": fuel_wet, "bulk": np.where(np.isfinite(bulk), bulk, np.nan)}
 
 
 def flame_margins(setup, pts, nd, flame_speed_method):
@@ -73,7 +76,12 @@ def flame_margins(setup, pts, nd, flame_speed_method):
     with np.errstate(divide="ignore"):
         ratio = np.where(flam_nodes & (st_nodes > 0), u_nodes / np.where(st_nodes > 0, st_nodes, 1.0), np.inf)
     margin = ratio.min(axis=0)
-    return {"tube_phi": tube_phi, "vap_phi": vap_phi_nodes, "X": X_nodes, "flam": flam_nodes, "lfl_phi": lfl_phi,
+    vlo, vhi, _ = VALIDITY["gulder_1984" if flame_speed_method == "gulder" else "metghalchi_keck_1982"]["phi"]
+    at = np.argmin(ratio, axis=0)
+    phi_at = vap_phi_nodes[at, np.arange(N)] if vap_phi_nodes.ndim == 2 else np.zeros(N)
+    estimate = np.isfinite(margin) & ((phi_at < vlo) | (phi_at > vhi))
+    return {"estimate": estimate, "tube_phi": tube_phi, "vap_phi": vap_phi_nodes, "X": X_nodes, "flam": flam_nodes,
+            "lfl_phi": lfl_phi,
             "ufl_phi": ufl_phi, "sl": sl_nodes, "st": st_nodes, "margin": margin,
             "flashback": np.isfinite(margin) & (margin < 1.0), "flammable": flam_nodes[-1]}
 
@@ -108,68 +116,69 @@ def validity_flags(setup, pts, nd, T_exit, flame, flame_speed_method, flags):
     flag(flags, setup.mach_in > 0.3, "inlet Mach number above 0.3 (compressibility neglected in the march)")
 
 
-def verdicts(setup, pts, settings, vap, dew_margin, T_exit, nd, wet, drops, flame):
-    """One verdict text per point: level, the reasons, then the cautions.
+def level_of(vap, dew_margin):
+    """0/1/2 (good/marginal/poor) from the exit's vaporised share and dew margin alone."""
+    level = np.where(dew_margin <= 0, np.where(vap < 0.5, 2, 1), 0)
+    return np.where((dew_margin > 0) & (dew_margin < DEW_MARGIN_MIN_K), 1, level)
 
-    The level follows what the march itself decides: whether the fuel is
-    vaporised at the exit (equilibrium) with a margin over the dew point
-    (:data:`DEW_MARGIN_MIN_K`), whether the wall heats at all, and flashback.
-    Two checks that rest on simpler models than the march are reported as
-    cautions and leave the level alone: the d²-law droplet life in the gas
-    alone (the equilibrium march assumes evaporation as fast as the hot wall
-    film gives it, so the two bracket the truth), and deposits on a wetted
-    wall above :data:`COKING_LIMIT`, an assumed threshold.
+
+def _reason(i, ex, flame, wall_nodes, T_air):
+    """(level, the one decisive reason) of point i."""
+    vap, dm, lo, hi = ex["vap"][i], ex["dew_margin"][i], ex["dew_low"][i], ex["dew_high"][i]
+    if flame["flashback"][i]:
+        est = " (flame speed an estimate: phi outside its fit)" if flame["estimate"][i] else ""
+        return 2, f"flashback risk: velocity {flame['margin'][i]:.2f} x the turbulent flame speed{est}"
+    if np.all(wall_nodes[:, i] <= T_air[i]):
+        return 2 if dm <= 0 and vap < 0.5 else 1, "wall no hotter than the inlet air: the tube adds no heat"
+    if dm <= 0 and vap < 0.5:
+        return 2, f"only {vap * 100:.0f} % vaporised at the exit, {-dm:.0f} K below the dew point"
+    if dm <= 0:
+        return 1, f"{vap * 100:.0f} % vaporised at the exit, {-dm:.0f} K below the dew point"
+    if ex["flips"][i]:
+        return 1, f"dew margin {lo:.0f} to {hi:.0f} K within the heat-transfer uncertainty: verdict flips"
+    if dm < DEW_MARGIN_MIN_K:
+        return 1, f"only {dm:.0f} K above the dew point (under {DEW_MARGIN_MIN_K:.0f} K)"
+    what = "fully vaporised" if vap >= 1.0 - 1e-9 else "fuel vaporised (some held in the oil)"
+    return 0, f"{what}, {lo:.0f} to {hi:.0f} K above the dew point"
+
+
+def verdicts(setup, pts, settings, ex, nd, wet, drops, flame):
+    """One short verdict per point (good / marginal / poor and the one decisive reason), and its cautions.
+
+    The level follows what the march decides: vaporised share and margin
+    over the dew point (:data:`DEW_MARGIN_MIN_K`) at the nominal heat
+    transfer and at both ends of its uncertainty (a level that differs
+    between the ends is "marginal"), whether the wall heats at all, and
+    flashback.  Checks resting on simpler models or assumed thresholds are
+    cautions, each given only where its own condition holds: droplets that
+    would outlive the tube in the gas alone (d²-law), a wetted wall above
+    the deposit threshold, liquid fuel heated above the bulk thermal-stability
+    limit (:data:`BULK_FUEL_LIMIT`), and oil leaving as liquid.
     """
     N, has_fuel, coking_limit = setup.N, setup.has_fuel, settings.coking_limit
-    survive, life, D0, t_res, wall_nodes = drops["survive"], drops["life"], drops["D0"], nd["time"][-1], nd["wall"]
-    coking, max_wet, oil, fuel_wet = wet["coking"], wet["max_wet"], wet["oil"], wet["fuel_wet"]
-    flashback, margin, flammable, X_exit = flame["flashback"], flame["margin"], flame["flammable"], flame["X"][-1]
-    T_air = pts.Ta
-    texts = []
+    survive, life, D0, t_res = drops["survive"], drops["life"], drops["D0"], nd["time"][-1]
+    texts, cautions = [], []
     for i in range(N):
-        reasons, cautions, level = [], [], 0
         if not has_fuel[i]:
-            texts.append("no fuel: air only (exit %.0f °C)" % (T_exit[i] - T0_C))
+            texts.append("good: no fuel, air only (exit %.0f °C)" % (ex["T"][i] - T0_C))
+            cautions.append("")
             continue
-        if np.all(wall_nodes[:, i] <= T_air[i]):
-            reasons.append(f"wall (at most {np.max(wall_nodes[:, i]) - T0_C:.0f} °C) no hotter than the inlet air "
-                           f"({T_air[i] - T0_C:.0f} °C): the tube adds no useful heat")
-            level = max(level, 1)
-        if vap[i] >= 1.0 - 1e-9:
-            reasons.append(f"fully vaporised at the exit (equilibrium), {dew_margin[i]:.0f} K above the dew point")
-        elif dew_margin[i] > 0:
-            reasons.append(f"fuel vaporised at the exit (equilibrium) but {(1.0 - vap[i]) * 100:.2g} % held in the "
-                           f"oil, {dew_margin[i]:.0f} K above the dew point")
-        else:
-            reasons.append(f"only {vap[i] * 100:.0f} % vaporised at the exit (equilibrium); "
-                           f"exit {-dew_margin[i]:.0f} K below the dew point")
-            level = max(level, 2 if vap[i] < 0.5 else 1)
-        if 0 < dew_margin[i] < DEW_MARGIN_MIN_K:
-            reasons.append(f"less than {DEW_MARGIN_MIN_K:.0f} K above the dew point: a colder day or more fuel "
-                           "condenses fuel again")
-            level = max(level, 1)
-        if flashback[i]:
-            reasons.append(f"flashback risk: velocity only {margin[i]:.2f} x the turbulent flame speed where "
-                           "the mixture is flammable")
-            level = 2
-        elif flammable[i]:
-            reasons.append(f"flammable mixture at the exit ({X_exit[i] * 100:.1f} % vapour), velocity "
-                           f"{margin[i]:.1f} x flame speed")
+        level, reason = _reason(i, ex, flame, nd["wall"], pts.Ta)
+        texts.append(("good", "marginal", "poor")[level] + ": " + reason)
+        c = []
         if survive[i]:
             life_txt = "never at exit conditions" if not np.isfinite(life[i]) else f"{life[i] * 1e3:.0f} ms"
-            cautions.append(f"{D0[i] * 1e6:.0f} µm droplets in the gas alone would outlive the tube (life {life_txt} "
-                            f"> residence {t_res[i] * 1e3:.1f} ms): the tube relies on the fuel film on its hot wall")
-        else:
-            reasons.append(f"{D0[i] * 1e6:.0f} µm droplets evaporate in {life[i] * 1e3:.1f} ms "
-                           f"(residence {t_res[i] * 1e3:.1f} ms)")
-        if coking[i]:
-            liquid = ("fuel and oil" if fuel_wet[i] else "oil") if oil[i] > 0 else "liquid fuel"
-            cautions.append(f"coking risk: wall wetted by {liquid} reaches {max_wet[i] - T0_C:.0f} °C "
-                            f"(> {coking_limit - T0_C:.0f} °C, the assumed deposit threshold)")
-        if oil[i] > 0:
-            cautions.append(f"oil residue {oil[i] * 3.6e6:.2f} g/h leaves as liquid")
-        text = ("good", "marginal", "poor")[level] + ": " + "; ".join(reasons)
-        if cautions:
-            text += "; cautions: " + "; ".join(cautions)
-        texts.append(text)
-    return texts
+            c.append(f"{D0[i] * 1e6:.0f} µm droplets in the gas alone outlive the tube (life {life_txt} > residence "
+                     f"{t_res[i] * 1e3:.1f} ms): it relies on the fuel film on its hot wall")
+        if wet["coking"][i]:
+            oil = wet["oil"][i]
+            liquid = ("fuel and oil" if wet["fuel_wet"][i] else "oil") if oil > 0 else "liquid fuel"
+            c.append(f"coking risk: wall wetted by {liquid} reaches {wet['max_wet'][i] - T0_C:.0f} °C "
+                     f"(> {coking_limit - T0_C:.0f} °C, the assumed deposit threshold)")
+        if wet["bulk"][i] > BULK_FUEL_LIMIT:
+            c.append(f"liquid fuel heated to {wet['bulk'][i] - T0_C:.0f} °C, above the "
+                     f"{BULK_FUEL_LIMIT - T0_C:.0f} °C bulk thermal-stability limit")
+        if wet["oil"][i] > 0:
+            c.append(f"oil residue {wet['oil'][i] * 3.6e6:.2f} g/h leaves as liquid")
+        cautions.append("; ".join(c))
+    return texts, cautions

@@ -230,6 +230,29 @@ def march_twice(setup, pts, settings):
     return state, q_in, coarse, record
 
 
+def band_exits(setup, pts, settings, state):
+    """Exit states at both ends of the inner heat-transfer uncertainty (the nominal one for a given coefficient).
+
+    The low end takes the correlations' coefficient times ``1 - HTC_UNCERTAINTY``; the high end times
+    ``1 + HTC_UNCERTAINTY``, and without the property-ratio correction where the wall is more than
+    ``1 / PROPERTY_RATIO_MIN`` times the gas temperature (outside that correction's fit).  Both ends are
+    marched with half the steps: their step error (the step-doubling estimate, flagged above
+    STEP_TOLERANCE_K) is small beside the band itself.
+    """
+    if pts.inner is not None:
+        return state, state
+    ends = []
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", ValidityWarning)
+        for band in ("low", "high"):
+            setup.ctx.band = band
+            try:
+                ends.append(march(setup, pts, settings.n_steps // 2, None)[0])
+            finally:
+                setup.ctx.band = None
+    return ends[0], ends[1]
+
+
 def exit_state(setup, pts, state, flags):
     """Exit vaporised fraction, fuel enthalpy, dew point and the liquid's bubble point, from the fuel model."""
     fuel, N, has_fuel, tables = pts.fuel, setup.N, setup.has_fuel, setup.tables
@@ -328,7 +351,15 @@ def solve(problem):
     flame = _margins.flame_margins(setup, pts, nd, settings.flame_speed_method)
     _margins.validity_flags(setup, pts, nd, state.T, flame, settings.flame_speed_method, flags)
     dew_margin = state.T - dew
-    verdict = _margins.verdicts(setup, pts, settings, vap_share, dew_margin, state.T, nd, wet, drops, flame)
+    low, high = band_exits(setup, pts, settings, state)
+    ex = {"vap": vap_share, "dew_margin": dew_margin, "T": state.T}
+    levels = [_margins.level_of(vap_share, dew_margin)]
+    for name, end in (("low", low), ("high", high)):
+        xv_end = setup.tables.props(end.T, end.P)[0][setup.tables.XV]
+        ex["dew_" + name] = np.where(has_fuel, end.T - dew, np.nan)
+        levels.append(_margins.level_of(np.clip(xv_end / setup.volatile, 0.0, 1.0), end.T - dew))
+    ex["flips"] = has_fuel & (np.min(levels, axis=0) != np.max(levels, axis=0))
+    verdict, cautions = _margins.verdicts(setup, pts, settings, ex, nd, wet, drops, flame)
     N = setup.N
     profile = {
         "position": nd["x"], "gas_temperature": nd["T"], "wall_temperature": nd["wall"],
@@ -345,7 +376,9 @@ def solve(problem):
         flashback_margin=flame["margin"], max_wet_wall=wet["max_wet"], max_wall=wet["max_wall"],
         coking_risk=wet["coking"], oil_residue=wet["oil"], pressure_drop=pts.P0 - state.P, heat_in=q_in,
         enthalpy_rise=rise, energy_error=energy_error, step_error_temperature=err_T, step_error_vapour=err_x,
-        reynolds_in=nd["Re"][0], reynolds_exit=nd["Re"][-1], verdict=verdict,
+        reynolds_in=nd["Re"][0], reynolds_exit=nd["Re"][-1], dew_margin_low=ex["dew_low"],
+        dew_margin_high=ex["dew_high"], max_liquid_fuel_temperature=wet["bulk"], flame_speed_estimate=flame["estimate"],
+        verdict=verdict, cautions=cautions,
         validity=["; ".join(f) for f in flags], profile=profile)
 
 

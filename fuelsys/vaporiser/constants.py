@@ -27,6 +27,18 @@ CD_TUBE_INLET = 0.6
 #: heats the bulk fuel, it is no wall-coking threshold: here it is an assumption, a conservative
 #: temperature above which a fuel-wetted wall may build deposits; it gives a caution, not a verdict [K]
 COKING_LIMIT = 260.0 + T0_C
+#: highest bulk temperature of liquid kerosene-type fuel before its thermal stability suffers: 163 °C (325 °F),
+#: the bulk-fuel limit of JP-8 / Jet A-1 that the US Air Force's JP-8+100 additive raised by 100 °F (Heneghan
+#: et al., "JP-8+100: the development of high-thermal-stability jet fuel", J. Energy Eng. 122 (1996); from
+#: memory).  ASTM D3241's 260 °C is the heated-tube (wall) temperature of the test, used by COKING_LIMIT [K]
+BULK_FUEL_LIMIT = 163.0 + T0_C
+#: relative uncertainty of the inner heat-transfer coefficient: Gnielinski (1976) reports about 90 % of the
+#: data within +-20 % (from memory); the verdict is computed at both ends [-]
+HTC_UNCERTAINTY = 0.2
+#: smallest gas/wall temperature ratio of the property-ratio correction's fit (heated gas, Tw/Tb <= 2; Kays &
+#: Crawford, Convective Heat and Mass Transfer 3rd ed., ch. 13, from memory): beyond it the band's upper end
+#: drops the correction [-]
+PROPERTY_RATIO_MIN = 0.5
 #: exit temperature margin over the dew point below which the tube is judged marginal: a colder day
 #: or a richer setting condenses fuel again (common practice, no source) [K]
 DEW_MARGIN_MIN_K = 10.0

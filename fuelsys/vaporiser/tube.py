@@ -58,7 +58,16 @@ class VaporiserResult:
     energy_error : (heat_in - enthalpy_rise) / |enthalpy_rise| [-]
     step_error_temperature, step_error_vapour : step-doubling error estimates [K], [-]
     reynolds_in, reynolds_exit : gas Reynolds numbers [-]
-    verdict : "good", "marginal" or "poor" followed by the reasons, per point (str)
+    dew_margin_low, dew_margin_high : dew margin at the low and high end of the inner heat-transfer
+        uncertainty (:data:`HTC_UNCERTAINTY`; the high end also drops the property-ratio correction
+        beyond its fit); equal to dew_margin for a given inner coefficient [K]
+    max_liquid_fuel_temperature : hottest liquid fuel (bulk, at the mixture's temperature); NaN where
+        none stays liquid [K]
+    flame_speed_estimate : True where the flashback margin rests on a flame speed extrapolated beyond
+        the correlation's equivalence ratios [-]
+    verdict : "good", "marginal" or "poor" and the one decisive reason, per point (str)
+    cautions : "" or the cautions whose own condition holds at the point (droplets, coking, bulk fuel
+        temperature, oil residue), per point (str)
     validity : "" or the correlations/ranges left, per point (str)
     profile : dict of arrays (nodes, *shape), nodes = legs x n_steps + 1: position along the heated
         legs [m], gas_temperature [K],
@@ -96,7 +105,12 @@ class VaporiserResult:
     step_error_vapour: object
     reynolds_in: object
     reynolds_exit: object
+    dew_margin_low: object
+    dew_margin_high: object
+    max_liquid_fuel_temperature: object
+    flame_speed_estimate: object
     verdict: object
+    cautions: object
     validity: object
     profile: dict = field(default_factory=dict)
 
@@ -365,7 +379,7 @@ def _result(res, out_shape):
         return np.array(items, dtype=object).reshape(out_shape)
 
     profile = {key: val.reshape(val.shape[:1] + out_shape) for key, val in res.pop("profile").items()}
-    texts = {key: out_text(res.pop(key)) for key in ("verdict", "validity")}
+    texts = {key: out_text(res.pop(key)) for key in ("verdict", "cautions", "validity")}
     return VaporiserResult(**{key: out(val) for key, val in res.items()}, **texts, profile=profile)
 
 

@@ -60,6 +60,8 @@ _ITEMS = {
     "exit_c": "°C",
     "dew_point_c": "°C",
     "dew_margin_k": "K",
+    "dew_margin_low_k": "K",
+    "dew_margin_high_k": "K",
     "residence_ms": "ms",
     "droplet_um": "µm",
     "droplet_life_ms": "ms",
@@ -70,7 +72,9 @@ _ITEMS = {
     "flame_speed_m_s": "m/s",
     "turbulent_flame_speed_m_s": "m/s",
     "flashback_margin": "-",
+    "flame_speed_estimate": "-",
     "max_wet_wall_c": "°C",
+    "max_liquid_fuel_c": "°C",
     "max_wall_c": "°C",
     "oil_residue_g_h": "g/h",
     "dp_mbar": "mbar",
@@ -79,6 +83,7 @@ _ITEMS = {
     "step_error_k": "K",
     "reynolds_exit": "-",
     "verdict": "-",
+    "cautions": "-",
     "validity": "-",
 }
 
@@ -99,6 +104,8 @@ def _item_values(r, i) -> dict:
         "exit_c": from_si(at("exit_temperature"), "°C"),
         "dew_point_c": _finite_or(at("dew_point"), "°C", "no fuel"),
         "dew_margin_k": _finite_or(at("dew_margin"), "K", "no fuel"),
+        "dew_margin_low_k": _finite_or(at("dew_margin_low"), "K", "no fuel"),
+        "dew_margin_high_k": _finite_or(at("dew_margin_high"), "K", "no fuel"),
         "residence_ms": from_si(at("residence_time"), "ms"),
         "droplet_um": from_si(at("droplet_diameter"), "µm"),
         "droplet_life_ms": _finite_or(at("droplet_lifetime"), "ms", "never (no evaporation at exit)"),
@@ -109,7 +116,9 @@ def _item_values(r, i) -> dict:
         "flame_speed_m_s": at("flame_speed"),
         "turbulent_flame_speed_m_s": at("turbulent_flame_speed"),
         "flashback_margin": _finite_or(at("flashback_margin"), "-", "not flammable anywhere"),
+        "flame_speed_estimate": "yes (phi outside the fit)" if at("flame_speed_estimate") else "no",
         "max_wet_wall_c": _finite_or(at("max_wet_wall"), "°C", "none (no liquid fuel on the wall)"),
+        "max_liquid_fuel_c": _finite_or(at("max_liquid_fuel_temperature"), "°C", "none (no liquid fuel)"),
         "max_wall_c": from_si(at("max_wall"), "°C"),
         "oil_residue_g_h": from_si(at("oil_residue"), "g/h"),
         "dp_mbar": from_si(at("pressure_drop"), "mbar"),
@@ -118,6 +127,7 @@ def _item_values(r, i) -> dict:
         "step_error_k": at("step_error_temperature"),
         "reynolds_exit": at("reynolds_exit"),
         "verdict": at("verdict"),
+        "cautions": at("cautions") or "none",
         "validity": at("validity") or "ok",
     }
 
@@ -237,3 +247,27 @@ def fs_residence_time(bore, length, m_air, m_fuel, P, T_in, T_exit):
     from fuelsys import vaporiser as vap
 
     return vap.residence_time_estimate(bore, length, m_air, m_fuel, P, T_in, T_exit)
+
+
+@spreadsheet_function(
+    name="FS_TUBE_LENGTH", category="vaporiser",
+    summary="Heated length at which a vaporiser tube's exit reaches a required margin over its dew point",
+    args=[_BORE, _FUEL_FLOW, _AIR, _CASE, _T3, _WALL, _FUEL,
+          Arg("margin_k", "number", "K", "required exit temperature above the dew point", low=-50, high=300),
+          Arg("max_length_mm", "number", "mm", "longest heated length considered", default=500.0, gt=5, high=5000,
+              group=True),
+          dataclasses.replace(_OIL, group=True), _SHAPE, _FUEL_T],
+    returns=Returns("number", "mm", "heated length (of each leg for the return shape)"),
+    source="the FS_VAPORISER march solved for the length by regula falsi (Illinois; Dowell & Jarratt 1971)",
+    si=True,
+    example=(6, 10, 2, 2.2, 200, 400, "kerosene", 80),
+)
+def fs_tube_length(bore, m_fuel, m_air, P, T3, T_wall, fuel, margin, max_length, oil_pct, shape, T_fuel):
+    from fuelsys import vaporiser as vap
+
+    if not (math.isfinite(float(getattr(fuel, "stoich_far", math.nan)))
+            and math.isfinite(float(getattr(fuel, "lhv", math.nan)))):
+        raise FuelsysInputError(f"fuel: {getattr(fuel, 'name', 'this fluid')} is not a fuel "
+                                "(no heating value); use kerosene or a fuel table")
+    return vap.tube_length_for_margin(bore, m_fuel, m_air, P, T3, T_wall, fuel.with_oil(oil_pct), margin,
+                                      float(max_length), shape=shape, t_fuel_in=T_fuel)
