@@ -586,3 +586,4 @@ def test_flashback_on_an_extrapolated_flame_speed_says_it_is_an_estimate(kero):
     slow = vap.vaporiser(12e-3, 0.3, 0.08e-3 * 0.068, 0.08e-3, 1.1e5, 500.0, 900.0, kero)
     assert "turbulent flame speed" in slow.verdict
     assert ("estimate" in slow.verdict) == bool(slow.flame_speed_estimate)
+    assert len(slow.verdict) <= 100, slow.verdict  # issue 13: one word and one reason, about 100 characters

@@ -126,7 +126,7 @@ def _reason(i, ex, flame, wall_nodes, T_air):
     """(level, the one decisive reason) of point i."""
     vap, dm, lo, hi = ex["vap"][i], ex["dew_margin"][i], ex["dew_low"][i], ex["dew_high"][i]
     if flame["flashback"][i]:
-        est = " (flame speed an estimate: phi outside its fit)" if flame["estimate"][i] else ""
+        est = " (flame speed an estimate)" if flame["estimate"][i] else ""
         return 2, f"flashback risk: velocity {flame['margin'][i]:.2f} x the turbulent flame speed{est}"
     if np.all(wall_nodes[:, i] <= T_air[i]):
         return 2 if dm <= 0 and vap < 0.5 else 1, "wall no hotter than the inlet air: the tube adds no heat"
