@@ -399,3 +399,31 @@ def test_relative_defined_name_is_relative_to_the_cell_using_it(tmp_path):
     path = raw_book(str(tmp_path / "rel.xlsx"), [("S", rows_xml(cells))], names=[("RightOf", None, "S!B1")])
     got = ev.evaluate_workbook(path)
     assert got[("S", "A3")] == 60.0 and got[("S", "A1")] == 11.0
+
+
+def test_five_hundred_operands_compute_without_recursion(tmp_path):
+    # issue 16: =A1+A2+...+A500 (2,391 characters) raised RecursionError from the compiler.
+    # Expected: the sum of 1..500 is 500*501/2 = 125,250 (arithmetic series).
+    text = "+".join(f"A{i}" for i in range(1, 501))
+    assert len(text) + 1 == 2392
+
+    def fill(wb):
+        ws = wb.active
+        for i in range(1, 501):
+            ws.cell(i, 1, i)
+        ws["B1"] = "=" + text
+        ws["B2"] = "=" + "-".join(f"A{i}" for i in range(1, 501))  # 1 - (2+...+500) = 1 - 125,249
+        ws["B3"] = "=A2" + "%" * 600  # 2 / 100^600 underflows to 0 (IEEE 754 double)
+        ws["C1"] = "=" + "+".join(f"B{i}" for i in range(1, 501))  # B1's formula moved: the template cache shifts it
+    path = book(tmp_path, fill)
+    values, skipped = compute(path)
+    assert not skipped
+    assert values["Sheet!B1"] == 125250.0
+    assert values["Sheet!B2"] == 1.0 - 125249.0
+    assert values["Sheet!B3"] == 0.0
+    assert values["Sheet!C1"] == 125250.0 + (1.0 - 125249.0) + 0.0
+    assert ev.evaluate_formula("+".join(["1"] * 3000)) == 3000.0
+    assert ev.evaluate_formula("&".join(["1"] * 1000)) == "1" * 1000
+    rep = ev.recalc_workbook(path)
+    assert rep.ok and rep.written
+    assert ev.check_workbook(path).ok

@@ -537,6 +537,30 @@ class _Templates:
         return tree
 
 
+def operator_chain(node):
+    """A run of operators down the left side of a tree -> (base, [(op, right operand or None)...]).
+
+    ``A1+A2+...+A500`` is a tree 499 levels deep on its left side, and ``-`` or
+    ``%`` applied to one operand nest the same way; the parser builds such runs
+    in a loop, so their length has no limit.  Everything that walks a tree
+    takes them apart here and loops over the steps, bottom first, so a formula's
+    length is never bounded by Python's recursion.  A unary operator's step has
+    None as its right operand.
+    """
+    steps = []
+    while True:
+        kind = node[0]
+        if kind == "bin":
+            steps.append((node[1], node[3]))
+        elif kind == "un":
+            steps.append((node[1], None))
+        else:
+            break
+        node = node[2]
+    steps.reverse()
+    return node, steps
+
+
 def shift(node, dr: int, dc: int):
     """Move the relative parts of every reference by (dr, dc) rows and columns.
 
@@ -567,10 +591,12 @@ def shift(node, dr: int, dc: int):
                 return ("err", "#REF!")
         # a moved range may have its corners the other way round (A1:A$1 one row down is A$1:A2)
         return _area_node(sh, r1, c1, r2, c2, ra1, ca1, ra2, ca2)
-    if kind == "bin":
-        return ("bin", node[1], shift(node[2], dr, dc), shift(node[3], dr, dc))
-    if kind == "un":
-        return ("un", node[1], shift(node[2], dr, dc))
+    if kind == "bin" or kind == "un":
+        base, steps = operator_chain(node)
+        out = shift(base, dr, dc)
+        for op, rhs in steps:
+            out = ("bin", op, out, shift(rhs, dr, dc)) if rhs is not None else ("un", op, out)
+        return out
     if kind == "call":
         return ("call", node[1], [shift(a, dr, dc) for a in node[2]])
     return node
@@ -626,10 +652,8 @@ class _Compiler:
             return self._area(node, ref)
         if kind == "name":
             return self._name(node, ref)
-        if kind == "bin":
-            return self._binary(node)
-        if kind == "un":
-            return self._unary(node)
+        if kind == "bin" or kind == "un":
+            return self._operators(node)
         if kind == "call":
             return self._call(node, ref)
         if kind == "array":
@@ -716,35 +740,51 @@ class _Compiler:
             self.names.pop()
 
     # -- operators --------------------------------------------------------
-    def _binary(self, node):
-        op = bi.BINARY[node[1]]
-        fa = self.comp(node[2])
-        fb = self.comp(node[3])
+    def _operators(self, node):
+        """A run of operators (see :func:`operator_chain`) as one loop: no recursion per operand."""
+        base, steps = operator_chain(node)
         bc = bi.broadcast
+        fb = self.comp(base)
+        ops = []
+        for op, rhs in steps:
+            if rhs is None:
+                if op != "+":  # unary plus leaves its operand as it is
+                    ops.append((bi.UNARY[op], None))
+            else:
+                ops.append((bi.BINARY[op], self.comp(rhs)))
+        if not ops:
+            return fb
+        if len(ops) == 1:
+            op, fr = ops[0]
+            if fr is None:
+                def unary():
+                    x = fb()
+                    if type(x) is Array:
+                        return bc(op, (x,))
+                    return op(x)
 
-        def binary():
-            x = fa()
-            y = fb()
-            if type(x) is Array or type(y) is Array:
-                return bc(op, (x, y))
-            return op(x, y)
+                return unary
 
-        return binary
+            def binary():
+                x = fb()
+                y = fr()
+                if type(x) is Array or type(y) is Array:
+                    return bc(op, (x, y))
+                return op(x, y)
 
-    def _unary(self, node):
-        op = bi.UNARY[node[1]]
-        fa = self.comp(node[2])
-        if node[1] == "+":
-            return fa
-        bc = bi.broadcast
+            return binary
 
-        def unary():
-            x = fa()
-            if type(x) is Array:
-                return bc(op, (x,))
-            return op(x)
+        def chain():
+            x = fb()
+            for op, fr in ops:
+                if fr is None:
+                    x = bc(op, (x,)) if type(x) is Array else op(x)
+                else:
+                    y = fr()
+                    x = bc(op, (x, y)) if type(x) is Array or type(y) is Array else op(x, y)
+            return x
 
-        return unary
+        return chain
 
     # -- functions --------------------------------------------------------
     def _call(self, node, ref):
