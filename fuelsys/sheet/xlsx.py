@@ -13,8 +13,15 @@ message (:class:`WorkbookRefused`) when it is
   looks like a zip bomb, an encrypted member, or two members of one name;
 * holds any XML part with a document type declaration (``<!DOCTYPE``): that is
   how entity-expansion bombs ("billion laughs") and external entities get in.
-  Every member's prolog is scanned (a few bytes each) and every part that is
-  parsed goes through :mod:`defusedxml` with DTDs forbidden.
+  Every member's prolog is scanned (in UTF-8, or UTF-16/32 told by a byte
+  order mark or by the zero bytes of its first characters, XML 1.0 Appendix F)
+  and every part that is parsed goes through :mod:`defusedxml` with DTDs
+  forbidden;
+* holds a damaged member (a CRC-32 that does not match, deflate data that
+  does not decompress, a member cut short): every member is decompressed once,
+  as a stream, before anything is parsed;
+* links to other workbooks (an ``externalLink`` part), whether or not a
+  formula uses the link.
 
 Limits (documented numbers; each refusal names the one that was hit):
 
@@ -24,9 +31,12 @@ Limits (documented numbers; each refusal names the one that was hit):
 ``MAX_MEMBER_BYTES``   256 MiB uncompressed, each member
 ``MAX_TOTAL_BYTES``    1 GiB uncompressed, all members together
 ``MAX_RATIO``          200 : 1 uncompressed/compressed, for members
-                       over ``RATIO_FLOOR`` (1 MiB) uncompressed
+                       over ``RATIO_FLOOR`` (1 MiB) uncompressed, and
+                       for all members together over
+                       ``TOTAL_RATIO_FLOOR`` (16 MiB)
 ``MAX_PROLOG_BYTES``   1 MiB of XML declaration and comments
                        before a part's root element
+``MAX_PROLOG_TOTAL``   16 MiB of such prologs in all parts together
 =====================  ==========================================
 
 Macros never run: nothing in a ``vbaProject.bin`` is read, and it is copied
@@ -83,7 +93,9 @@ MAX_MEMBER_BYTES = 256 * 1024 * 1024
 MAX_TOTAL_BYTES = 1024 * 1024 * 1024
 MAX_RATIO = 200
 RATIO_FLOOR = 1024 * 1024
+TOTAL_RATIO_FLOOR = 16 * 1024 * 1024
 
+_CHUNK = 1 << 20
 OLE_MAGIC = b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1"
 
 #: the main part content types of the workbooks read here
@@ -245,7 +257,7 @@ def _check_zip(zf: zipfile.ZipFile, where: str) -> None:
     if len(infos) > MAX_MEMBERS:
         raise WorkbookRefused(f"{where}: {len(infos)} zip members (more than the limit of {MAX_MEMBERS})")
     seen = set()
-    total = 0
+    total = packed = 0
     for info in infos:
         if info.filename in seen:
             raise WorkbookRefused(f"{where}: two zip members are named {info.filename!r}")
@@ -263,9 +275,13 @@ def _check_zip(zf: zipfile.ZipFile, where: str) -> None:
             raise WorkbookRefused(f"{where}: member {info.filename} expands {info.file_size / max(info.compress_size, 1):.0f} "
                                   f"times (more than the limit of {MAX_RATIO}:1); refused as a possible zip bomb")
         total += info.file_size
+        packed += info.compress_size
         if total > MAX_TOTAL_BYTES:
             raise WorkbookRefused(f"{where}: more than {MAX_TOTAL_BYTES} bytes uncompressed in all "
                                   "(the limit); refused as a possible zip bomb")
+    if total > TOTAL_RATIO_FLOOR and total > MAX_RATIO * max(packed, 1):
+        raise WorkbookRefused(f"{where}: its members expand {total / max(packed, 1):.0f} times in all (more than the "
+                              f"limit of {MAX_RATIO}:1 over {TOTAL_RATIO_FLOOR} bytes); refused as a possible zip bomb")
 
 
 def _read_member(zf: zipfile.ZipFile, name: str) -> bytes:
@@ -277,39 +293,136 @@ def _read_member(zf: zipfile.ZipFile, name: str) -> bytes:
     return data
 
 
-_PROLOG_SKIP = re.compile(rb"\s+|<\?.*?\?>|<!--.*?-->", re.DOTALL)
 #: longest XML prolog (declaration, comments, processing instructions) read before the root element
 MAX_PROLOG_BYTES = 1024 * 1024
+#: all the prologs of one package together (a real part's prolog is well under a kilobyte)
+MAX_PROLOG_TOTAL = 16 * 1024 * 1024
+
+_SPACE = re.compile(r"[ \t\r\n]*")
+#: the first four bytes of an XML part without a byte order mark -> its encoding
+#: (W3C XML 1.0, Appendix F.1: "<" and "?" or "!" as seen in each encoding)
+_BOMS = ((b"\x00\x00\xfe\xff", "utf-32-be"), (b"\xff\xfe\x00\x00", "utf-32-le"),
+         (b"\xef\xbb\xbf", "utf-8-sig"), (b"\xfe\xff", "utf-16-be"), (b"\xff\xfe", "utf-16-le"))
 
 
-def _scan_prolog(zf: zipfile.ZipFile, info: zipfile.ZipInfo, where: str) -> None:
-    """Refuse a member whose XML prolog has a document type declaration (reads only the prolog)."""
-    buf = b""
-    with zf.open(info) as fh:
+def _sniff_encoding(head: bytes) -> str:
+    """The encoding of an XML part from its first four bytes: a byte order mark, or the
+    zero bytes that UTF-16 and UTF-32 put beside an ASCII character; else UTF-8."""
+    for bom, name in _BOMS:
+        if head.startswith(bom):
+            return name
+    b = head[:4].ljust(4, b"\x01")
+    zero = [x == 0 for x in b]
+    if zero == [True, True, True, False]:
+        return "utf-32-be"
+    if zero == [False, True, True, True]:
+        return "utf-32-le"
+    if zero[0] and not zero[1]:
+        return "utf-16-be"
+    if not zero[0] and zero[1]:
+        return "utf-16-le"
+    return "utf-8"
+
+
+class _PrologScan:
+    """Finds a document type declaration in an XML part's prolog, fed chunk by chunk.
+
+    Whitespace, the XML declaration, processing instructions and comments are
+    skipped; the scan ends at the first other markup (the root element, or a
+    ``<!DOCTYPE``) or at the first character that is not markup at all (a part
+    that is not XML).  Each byte is looked at a bounded number of times, so the
+    cost is linear in the prolog's length.
+    """
+
+    def __init__(self, name: str, where: str):
+        self.name, self.where = name, where
+        self.decoder = None
+        self.text = ""       # decoded text not yet skipped
+        self.closing = None  # the end ("-->" or "?>") of a comment or instruction still open
+        self.seen = 0        # bytes fed so far
+        self.skipped = 0     # characters of prolog skipped before self.text
+        self.done = False
+
+    def feed(self, chunk: bytes, final: bool = False) -> None:
+        if self.done:
+            return
+        if self.decoder is None:
+            import codecs
+
+            self.decoder = codecs.getincrementaldecoder(_sniff_encoding(chunk))(errors="replace")
+        self.seen += len(chunk)
+        text = self.text + self.decoder.decode(chunk, final)
+        pos = 0
         while True:
-            chunk = fh.read(65536)
-            buf += chunk
-            text = buf
-            if text.startswith((b"\xff\xfe", b"\xfe\xff")):
-                text = text.decode("utf-16", errors="ignore").encode("utf-8", errors="ignore")
-            elif text.startswith(b"\xef\xbb\xbf"):
-                text = text[3:]
-            pos = 0
-            while True:
-                m = _PROLOG_SKIP.match(text, pos)
-                if not m or m.end() == pos:
+            if self.closing is not None:
+                end = text.find(self.closing, pos)
+                if end < 0:
+                    pos = max(pos, len(text) - len(self.closing) + 1)  # keep what may start the end mark
                     break
-                pos = m.end()
+                pos = end + len(self.closing)
+                self.closing = None
+            pos = _SPACE.match(text, pos).end()
+            if text.startswith("<?", pos) or text.startswith("<!--", pos):
+                self.closing = "?>" if text[pos + 1] == "?" else "-->"
+                pos += 2 if self.closing == "?>" else 4
+                continue
             rest = text[pos:pos + 9]
-            if rest.upper() == b"<!DOCTYPE":
-                raise WorkbookRefused(f"{where}: part {info.filename} has a document type declaration "
+            if rest.upper() == "<!DOCTYPE":
+                raise WorkbookRefused(f"{self.where}: part {self.name} has a document type declaration "
                                       "(<!DOCTYPE); refused as a possible XML bomb or external entity")
-            unfinished = rest.startswith((b"<?", b"<!--")) or (len(rest) < 9 and b"<!DOCTYPE".startswith(rest.upper()))
-            if not unfinished or not chunk:
-                return  # the root element (or something that is not XML) comes next
-            if len(buf) > MAX_PROLOG_BYTES:
-                raise WorkbookRefused(f"{where}: part {info.filename} has an XML prolog longer than "
-                                      f"{MAX_PROLOG_BYTES} bytes (the limit)")
+            if (len(rest) < 9 and "<!DOCTYPE".startswith(rest.upper())) or rest == "<!-":
+                break  # too few characters yet to tell
+            self.done = True  # the root element, or something that is not XML
+            self.skipped += pos
+            return
+        self.text = text[pos:]
+        self.skipped += pos
+        if final:
+            self.done = True
+        elif self.seen > MAX_PROLOG_BYTES:
+            raise WorkbookRefused(f"{self.where}: part {self.name} has an XML prolog longer than "
+                                  f"{MAX_PROLOG_BYTES} bytes (the limit)")
+
+
+def _check_members(zf: zipfile.ZipFile, where: str) -> None:
+    """Read every member once, as a stream: its prolog must hold no document type
+    declaration, and its data must decompress to its recorded size and CRC-32.
+
+    A member whose prolog is long counts against :data:`MAX_PROLOG_TOTAL`; the
+    rest of each member is read in 1 MiB pieces and dropped, so memory stays
+    small and the time is that of decompressing the package once (its total is
+    bounded by :data:`MAX_TOTAL_BYTES`).
+    """
+    prolog_total = 0
+    for info in zf.infolist():
+        if info.is_dir():
+            continue
+        scan = _PrologScan(info.filename, where)
+        try:
+            with zf.open(info) as fh:
+                while True:
+                    chunk = fh.read(65536 if not scan.done else _CHUNK)
+                    if not scan.done:
+                        scan.feed(chunk, final=not chunk)
+                        if scan.done:
+                            prolog_total += scan.skipped
+                            if prolog_total > MAX_PROLOG_TOTAL:
+                                raise WorkbookRefused(
+                                    f"{where}: the XML prologs of its parts add up to more than "
+                                    f"{MAX_PROLOG_TOTAL} bytes (the limit; at part {info.filename}); "
+                                    "refused as a possible decompression bomb")
+                    if not chunk:
+                        break
+        except WorkbookRefused:
+            raise
+        except (zipfile.BadZipFile, zlib.error, EOFError, OSError, ValueError, NotImplementedError) as exc:
+            raise WorkbookRefused(_damaged(where, info.filename, exc)) from None
+
+
+def _damaged(where: str, member: str, exc: BaseException) -> str:
+    return (f"{where}: part {member} is damaged ({type(exc).__name__}: {exc}); the file was cut short or "
+            "corrupted in transfer: ask for it again, or open it in a spreadsheet program, repair it "
+            "and save it as .xlsx")
 
 
 # ---------------------------------------------------------------------------
@@ -336,7 +449,7 @@ def read_book(path) -> Book:
                               "(perhaps another format renamed)")
     try:
         zf = zipfile.ZipFile(io.BytesIO(data))
-    except zipfile.BadZipFile as exc:
+    except (zipfile.BadZipFile, ValueError, struct.error, OSError, EOFError) as exc:
         raise WorkbookRefused(f"{where} is not a readable zip package ({exc})") from None
     _check_zip(zf, where)
     names = set(zf.namelist())
@@ -344,9 +457,7 @@ def read_book(path) -> Book:
         mt = _read_member(zf, "mimetype")[:200].decode("ascii", "replace")
         if "opendocument" in mt:
             raise WorkbookRefused(f"{where} is an OpenDocument file ({mt.strip()}), not a .xlsx workbook: {_SAVE_AS}")
-    for info in zf.infolist():
-        if not info.is_dir():
-            _scan_prolog(zf, info, where)
+    _check_members(zf, where)
     if "[Content_Types].xml" not in names:
         raise WorkbookRefused(f"{where} is a zip file but not an Office Open XML package (no [Content_Types].xml)")
     ct = _parse_xml(_read_member(zf, "[Content_Types].xml"), "[Content_Types].xml")
@@ -385,6 +496,7 @@ def read_book(path) -> Book:
             root = _parse_xml(_read_member(zf, target), target)
             sst = [_string_item(si) for si in root if _local(si.tag) == "si"]
     externals = sum(1 for rtype, _ in rels.values() if rtype.endswith("/externalLink"))
+    _refuse_external_links(zf, names, rels, where)
     for s in sheet_els:
         rid = _attr(s, "id")
         rtype, target = rels.get(rid, ("", None))
@@ -400,6 +512,28 @@ def read_book(path) -> Book:
         if dn.scope is not None and not (0 <= dn.scope < len(sheets)):
             dn.scope = None
     return Book(path, kind, sheets, dnames, date1904, data, (st.st_size, st.st_mtime_ns), externals)
+
+
+def _refuse_external_links(zf, names, rels, where) -> None:
+    """A book linked to other workbooks is refused, whether or not a formula uses the link:
+    its cached link values would be kept as they are while the book claims to be computed."""
+    parts = sorted({t for rtype, t in rels.values() if rtype.endswith("/externalLink") and t}
+                   | {n for n in names if n.startswith("xl/externalLinks/") and n.endswith(".xml")})
+    if not parts and not any(rtype.endswith("/externalLink") for rtype, _ in rels.values()):
+        return
+    shown = parts[0] if parts else "a relationship of the workbook"
+    source = ""
+    if parts and parts[0] in names:
+        folder, base = posixpath.split(parts[0])
+        rel_part = posixpath.join(folder, "_rels", base + ".rels")
+        if rel_part in names:
+            for el in _parse_xml(_read_member(zf, rel_part), rel_part):
+                if el.get("TargetMode") == "External" and el.get("Target"):
+                    source = f" -> {el.get('Target')[:200]}"
+                    break
+    raise WorkbookRefused(f"{where} links to another workbook ({shown}{source}); fuelsys computes only "
+                          "self-contained books: remove the links (Excel: Data > Edit Links > Break Link; "
+                          "LibreOffice: Edit > Links to External Files > Break Link), save, and run again")
 
 
 def _office_document(zf, names, where) -> str:
@@ -1015,9 +1149,6 @@ def rebuild_zip(data: bytes, replace: dict) -> bytes:
 
 # ---------------------------------------------------------------------------
 # writing a book
-
-_CHUNK = 1 << 20
-
 
 def _write_chunk(fh, chunk: bytes) -> None:
     fh.write(chunk)
