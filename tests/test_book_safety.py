@@ -174,3 +174,136 @@ def test_many_small_members_that_expand_a_thousandfold_are_refused_together(tmp_
     path = _small(tmp_path / "many.xlsx", extra=members)
     with pytest.raises(xlsx.WorkbookRefused, match="expand .* times in all"):
         xlsx.read_book(path)
+
+
+# ---------------------------------------------------------------------------
+# the output policy (README, "Where recalc writes"): run as root in CI, so the
+# root-only cases (a device node, another owner) are exercised there
+
+import os  # noqa: E402
+import socket  # noqa: E402
+import stat  # noqa: E402
+import subprocess  # noqa: E402
+import sys  # noqa: E402
+
+root_only = pytest.mark.skipif(os.geteuid() != 0, reason="needs root (CI runs as root)")
+
+
+def test_a_symlink_as_output_or_book_is_not_followed_without_the_flag(tmp_path, capsys):
+    book = _book(tmp_path / "engine.xlsx")
+    victim = tmp_path / "victim.txt"
+    victim.write_text("precious")
+    link = tmp_path / "out.xlsx"
+    link.symlink_to(victim)
+    assert main(["recalc", str(book), "-o", str(link)]) == 2
+    err = capsys.readouterr().err
+    assert "symbolic link" in err and "--follow-symlinks" in err
+    assert victim.read_text() == "precious" and link.is_symlink()
+    # in place through a link to the book: refused too, then allowed by the flag (the link stays a link)
+    alias = tmp_path / "alias.xlsx"
+    alias.symlink_to(book)
+    before = book.read_bytes()
+    assert main(["recalc", str(alias)]) == 2
+    assert book.read_bytes() == before
+    assert main(["recalc", str(alias), "--follow-symlinks"]) == 0
+    assert alias.is_symlink() and book.read_bytes() != before
+
+
+@root_only
+def test_a_device_or_fifo_as_output_is_refused_never_replaced(tmp_path, capsys):
+    book = _book(tmp_path / "engine.xlsx")
+    dev = tmp_path / "null"
+    os.mknod(dev, stat.S_IFCHR | 0o666, os.makedev(1, 3))  # the null device's numbers (Linux devices.txt)
+    fifo = tmp_path / "pipe.xlsx"
+    os.mkfifo(fifo)
+    for out in (dev, fifo):
+        for extra in ([], ["--force", "--follow-symlinks"]):
+            assert main(["recalc", str(book), "-o", str(out)] + extra) == 2
+            assert "not a regular file" in capsys.readouterr().err
+    assert stat.S_ISCHR(os.lstat(dev).st_mode) and stat.S_ISFIFO(os.lstat(fifo).st_mode)
+
+
+def test_a_read_only_book_is_refused_unless_forced_and_keeps_its_mode(tmp_path, capsys):
+    book = _book(tmp_path / "engine.xlsx")
+    os.chmod(book, 0o444)
+    before = book.read_bytes()
+    assert main(["recalc", str(book)]) == 2
+    assert "read-only" in capsys.readouterr().err and book.read_bytes() == before
+    assert main(["recalc", str(book), "--force"]) == 0
+    assert book.read_bytes() != before and stat.S_IMODE(os.stat(book).st_mode) == 0o444
+
+
+@root_only
+def test_owner_group_and_mode_are_kept(tmp_path):
+    book = _book(tmp_path / "engine.xlsx")
+    os.chmod(book, 0o640)
+    os.chown(book, 4321, 8765)
+    before = book.read_bytes()
+    assert main(["recalc", str(book)]) == 0
+    st = os.stat(book)
+    assert book.read_bytes() != before
+    assert (st.st_uid, st.st_gid, stat.S_IMODE(st.st_mode)) == (4321, 8765, 0o640)
+    out = tmp_path / "copy.xlsx"
+    _book(out)
+    os.chown(out, 1111, 2222)
+    assert main(["recalc", str(book), "-o", str(out)]) == 0
+    assert (os.stat(out).st_uid, os.stat(out).st_gid) == (1111, 2222)
+
+
+def test_extended_attributes_are_kept_where_the_file_system_has_them(tmp_path):
+    book = _book(tmp_path / "engine.xlsx")
+    try:
+        os.setxattr(book, "user.fuelsys.test", b"kept")
+    except OSError:
+        pytest.skip("this file system keeps no user extended attributes")
+    assert main(["recalc", str(book)]) == 0
+    assert os.getxattr(book, "user.fuelsys.test") == b"kept"
+
+
+def test_a_hard_linked_book_is_refused_unless_forced_saying_what_breaks(tmp_path, capsys):
+    book = _book(tmp_path / "engine.xlsx")
+    other = tmp_path / "shared-copy.xlsx"
+    os.link(book, other)
+    before = book.read_bytes()
+    assert main(["recalc", str(book)]) == 2
+    err = capsys.readouterr().err
+    assert "2 hard links" in err and "--force" in err and book.read_bytes() == before
+    assert main(["recalc", str(book), "--force"]) == 0
+    assert "other names keep the old file" in capsys.readouterr().err
+    assert book.read_bytes() != before and other.read_bytes() == before
+
+
+def _dead_pid():
+    p = subprocess.Popen([sys.executable, "-c", "pass"])
+    p.wait()
+    return p.pid
+
+
+def test_stale_temporary_files_of_fuelsys_only_are_removed(tmp_path):
+    book = _book(tmp_path / "engine.xlsx")
+    dead = tmp_path / f".~fuelsys-{_dead_pid()}-a1b2c3.tmp"
+    alive = tmp_path / f".~fuelsys-{os.getpid()}-d4e5f6.tmp"
+    others = [tmp_path / ".~fuelsys-lo-x1.xlsx", tmp_path / "notes.tmp", tmp_path / ".~fuelsys-12ab-x.tmp"]
+    for p in [dead, alive] + others:
+        p.write_bytes(b"half a book")
+    assert main(["recalc", str(book)]) == 0
+    assert not dead.exists()
+    assert alive.exists() and all(p.exists() for p in others)
+    assert sorted(p.name for p in tmp_path.iterdir() if p.name.startswith(".~fuelsys-")) == \
+        sorted([alive.name, others[0].name, others[2].name])
+
+
+def test_a_stale_lock_is_explained_with_how_to_clear_it(tmp_path, capsys):
+    book = _book(tmp_path / "engine.xlsx")
+    lock = tmp_path / ".~lock.engine.xlsx#"
+    # LibreOffice's lock: user name, system user, host, date, profile URL (common practice, no source)
+    lock.write_text(f",builder,{socket.gethostname()},05.12.2026 09:00,file:///home/builder/.config/libreoffice/4;")
+    assert main(["recalc", str(book)]) == 2
+    err = capsys.readouterr().err
+    assert socket.gethostname() in err and "builder" in err
+    assert "delete" in err and str(lock.name) in err
+    lock.write_text(f",builder,{socket.gethostname()},05.12.2026 09:00,{_dead_pid()};")
+    assert main(["recalc", str(book)]) == 2
+    assert "is not running: the lock is stale" in capsys.readouterr().err
+    lock.unlink()
+    assert main(["recalc", str(book)]) == 0

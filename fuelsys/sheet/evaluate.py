@@ -1403,6 +1403,8 @@ class Report:
     #: cells whose result is an ``FS error:`` text, and cells whose result is an error value (#VALUE! ...)
     fs_errors: int = 0
     error_values: int = 0
+    #: what the write could not keep (owner, extended attributes) or what --force let through
+    warnings: list = field(default_factory=list)
 
     @property
     def ok(self) -> bool:
@@ -1420,7 +1422,8 @@ class Report:
                 f"{self.seconds:.2f} s; {where}{flagged}")
 
 
-def recalc_workbook(path, output=None, allow_partial: bool = False, progress=None) -> Report:
+def recalc_workbook(path, output=None, allow_partial: bool = False, progress=None,
+                    follow_symlinks: bool = False, force: bool = False) -> Report:
     """Compute every formula of the book at ``path`` and store the values loss-free.
 
     Only the formula cells' cached values in the changed sheet parts are
@@ -1428,15 +1431,19 @@ def recalc_workbook(path, output=None, allow_partial: bool = False, progress=Non
     :mod:`fuelsys.sheet.xlsx`).  The book is written in place (atomically)
     unless ``output`` names another file.  When a cell cannot be computed
     nothing is written unless ``allow_partial``; then the computable cells are
-    stored and the others keep what they had.
+    stored and the others keep what they had.  The output policy of
+    :func:`fuelsys.sheet.xlsx.output_target` (symbolic links, devices,
+    read-only and hard-linked files; ``follow_symlinks`` and ``force``) is
+    applied before anything is computed.
     """
     from fuelsys.sheet import xlsx
 
     t0 = time.perf_counter()
+    target = os.fspath(output) if output is not None else os.fspath(path)
     book = xlsx.read_book(path)
+    xlsx.output_target(target, follow_symlinks, force)
     comp = compute_book(book, progress)
     skipped = comp.skipped_list()
-    target = os.fspath(output) if output is not None else os.fspath(path)
     fs_err = sum(1 for v in comp.values.values() if isinstance(v, str) and v.startswith("FS error:"))
     err_val = sum(1 for v in comp.values.values() if type(v) is XlError)
     if skipped and not allow_partial:
@@ -1445,9 +1452,10 @@ def recalc_workbook(path, output=None, allow_partial: bool = False, progress=Non
     updates = {}
     for (si, r, c), v in comp.values.items():
         updates.setdefault(si, {})[(r, c)] = v
-    changed = xlsx.write_values(book, updates, target)
+    warnings = []
+    changed = xlsx.write_values(book, updates, target, follow_symlinks, force, warnings)
     return Report(os.fspath(path), target, len(comp.values), skipped, changed, time.perf_counter() - t0, True,
-                  comp.notes_list(), fs_err, err_val)
+                  comp.notes_list(), fs_err, err_val, warnings)
 
 
 @dataclass

@@ -69,6 +69,7 @@ import math
 import os
 import posixpath
 import re
+import stat
 import struct
 import tempfile
 import zipfile
@@ -1163,38 +1164,214 @@ def open_elsewhere(path: str) -> str | None:
     """
     folder, name = os.path.split(os.path.realpath(path))
     for lock in (f".~lock.{name}#", "~$" + name[2:] if len(name) > 2 else "", "~$" + name):
-        if lock and os.path.exists(os.path.join(folder, lock)):
+        if lock and os.path.lexists(os.path.join(folder, lock)):
             return os.path.join(folder, lock)
     return None
 
 
-def atomic_write(target: str, payload: bytes, mode_from: str | None = None, expect_stat=None) -> None:
+def pid_alive(pid: int) -> bool:
+    """Whether process ``pid`` exists on this machine (signal 0 tests without sending anything)."""
+    try:
+        os.kill(pid, 0)
+    except ProcessLookupError:
+        return False
+    except PermissionError:
+        return True
+    except (OverflowError, ValueError, OSError):
+        return False
+    return True
+
+
+def _libreoffice_running() -> bool:
+    try:
+        pids = [p for p in os.listdir("/proc") if p.isdigit()]
+    except OSError:
+        return True  # cannot tell: assume it may be
+    for p in pids:
+        try:
+            with open(f"/proc/{p}/comm") as fh:
+                if fh.read().strip() in ("soffice", "soffice.bin", "oosplash"):
+                    return True
+        except OSError:
+            continue
+    return False
+
+
+def describe_lock(lock: str) -> str:
+    """Who holds a spreadsheet program's lock file, whether that looks stale, and how to clear it."""
+    import socket
+
+    name = os.path.basename(lock)
+    try:
+        with open(lock, "rb") as fh:
+            raw = fh.read(4096)
+    except OSError:
+        raw = b""
+    text = raw.decode("utf-8", "replace").strip().rstrip(";")
+    verdict = ""
+    if name.startswith(".~lock."):
+        # LibreOffice: user name, system user, host, date, profile URL (and a process id where present)
+        fields = text.split(",")
+        user = next((f for f in fields[:2] if f.strip()), "someone").strip()
+        host = fields[2].strip() if len(fields) > 2 else ""
+        when = fields[3].strip() if len(fields) > 3 else ""
+        pid = next((int(f) for f in fields[4:] if f.strip().isdigit()), None)
+        who = f"LibreOffice lock of {user}" + (f" on {host}" if host else "") + (f" since {when}" if when else "")
+        if host and host == socket.gethostname():
+            if pid is not None:
+                verdict = (f"; process {pid} is running: the book is open there" if pid_alive(pid)
+                           else f"; process {pid} is not running: the lock is stale")
+            else:
+                verdict = ("; a LibreOffice is running on this machine: close the book there"
+                           if _libreoffice_running() else
+                           "; no LibreOffice is running on this machine: the lock is stale")
+        elif host:
+            verdict = f"; it was written on another computer ({host}): if the book is not open there, it is stale"
+    else:
+        who = "Excel owner file" + (f" of {text[1:40].strip()}" if len(text) > 1 else "")
+    return (f"{name} ({who}{verdict}). If no spreadsheet program has the book open (one crashed, or the "
+            f"file came with the lock), delete {lock} and run again")
+
+
+#: the temporary files fuelsys writes beside a book: ".~fuelsys-<pid>-<random>.tmp"
+_TEMP_RE = re.compile(r"\.~fuelsys-(\d{1,10})-[A-Za-z0-9_]{1,32}\.tmp\Z")
+
+
+def clean_stale_temps(folder: str) -> list[str]:
+    """Remove fuelsys's own temporary files in ``folder`` whose writing process is dead.
+
+    Only regular files named ``.~fuelsys-<pid>-<random>.tmp`` and owned by this
+    user are touched (a kill during a write leaves one behind); the LibreOffice
+    engine's files and everything else are left alone.
+    """
+    removed = []
+    try:
+        names = os.listdir(folder)
+    except OSError:
+        return removed
+    for name in names:
+        m = _TEMP_RE.match(name)
+        if not m:
+            continue
+        pid = int(m.group(1))
+        if pid == os.getpid() or pid_alive(pid):
+            continue
+        p = os.path.join(folder, name)
+        try:
+            st = os.lstat(p)
+            if stat.S_ISREG(st.st_mode) and st.st_uid == os.geteuid():
+                os.unlink(p)
+                removed.append(p)
+        except OSError:
+            continue
+    return removed
+
+
+_KINDS = ((stat.S_ISCHR, "a character device"), (stat.S_ISBLK, "a block device"), (stat.S_ISFIFO, "a FIFO (named pipe)"),
+          (stat.S_ISSOCK, "a socket"), (stat.S_ISDIR, "a folder"))
+
+
+def output_target(target, follow_symlinks: bool = False, force: bool = False) -> tuple[str, list[str]]:
+    """The output policy: the file to replace for ``target``, and notes on what ``force`` let through.
+
+    * a symbolic link is refused unless ``follow_symlinks`` (then its target is replaced);
+    * anything but a regular file (a device, a FIFO, a socket, a folder) is refused, always;
+    * a read-only file (no write bit) is refused unless ``force`` (it stays read-only);
+    * a file with other hard links is refused unless ``force``: a replace gives this name a
+      new file, and the other names keep the old one.
+    Raises :class:`WriteError`; nothing is written.
+    """
+    target = os.path.abspath(os.fspath(target))
+    notes = []
+    try:
+        st = os.lstat(target)
+    except FileNotFoundError:
+        st = None
+    if st is not None and stat.S_ISLNK(st.st_mode):
+        if not follow_symlinks:
+            raise WriteError(f"{target} is a symbolic link (to {os.readlink(target)}); fuelsys does not write "
+                             "through links: name the file itself, or add --follow-symlinks; nothing written")
+        target = os.path.realpath(target)
+        try:
+            st = os.stat(target)
+        except FileNotFoundError:
+            st = None
+    if st is None:
+        folder = os.path.dirname(target)
+        if not os.path.isdir(folder):
+            raise WriteError(f"the folder {folder} does not exist; nothing written")
+        return target, notes
+    for test, kind in _KINDS:
+        if test(st.st_mode):
+            raise WriteError(f"{target} is not a regular file ({kind}); fuelsys writes only regular files and "
+                             "never replaces anything else: give another --output; nothing written")
+    if not st.st_mode & 0o222:
+        if not force:
+            raise WriteError(f"{target} is read-only (mode {stat.S_IMODE(st.st_mode):04o}); add --force to replace "
+                             "it (it stays read-only), or write elsewhere with --output; nothing written")
+        notes.append(f"{os.path.basename(target)} was read-only; replaced because of --force (still read-only)")
+    if st.st_nlink > 1:
+        what = (f"{target} has {st.st_nlink} hard links: replacing it gives this name a new file, and the "
+                "other names keep the old file with the old values")
+        if not force:
+            raise WriteError(what + "; write elsewhere with --output, or add --force to replace it anyway; "
+                             "nothing written")
+        notes.append(f"{os.path.basename(target)} had {st.st_nlink} hard links; replaced because of --force: "
+                     "the other names keep the old file with the old values")
+    return target, notes
+
+
+def _keep_attributes(src: str, tmp: str, notes: list) -> None:
+    """Give ``tmp`` the owner, group, mode and extended attributes of ``src`` where this process may."""
+    st = os.stat(src)
+    if (st.st_uid, st.st_gid) != (os.geteuid(), os.getegid()):
+        try:
+            os.chown(tmp, st.st_uid, st.st_gid)
+        except OSError as exc:
+            notes.append(f"owner and group of {os.path.basename(src)} not kept ({exc.strerror}): the file now "
+                         "belongs to you")
+    os.chmod(tmp, stat.S_IMODE(st.st_mode))
+    try:
+        names = os.listxattr(src)
+    except (OSError, AttributeError):
+        names = []
+    for name in names:
+        try:
+            os.setxattr(tmp, name, os.getxattr(src, name))
+        except OSError as exc:
+            notes.append(f"extended attribute {name} of {os.path.basename(src)} not kept ({exc.strerror})")
+
+
+def atomic_write(target: str, payload: bytes, mode_from: str | None = None, expect_stat=None,
+                 follow_symlinks: bool = False, force: bool = False) -> list[str]:
     """Write ``payload`` to ``target`` through a temporary file in the same folder and :func:`os.replace`.
 
-    ``expect_stat`` (size, mtime_ns) refuses the replace when ``target`` changed
-    since it was read.  On any failure the temporary file is removed and
-    ``target`` is untouched.
+    The output policy (:func:`output_target`) applies first; the new file keeps
+    the replaced file's owner, group, mode and extended attributes where the
+    process may (a new file takes the mode of ``mode_from``).  ``expect_stat``
+    (size, mtime_ns) refuses the replace when ``target`` changed since it was
+    read.  fuelsys's own stale temporary files in the folder are removed first.
+    On any failure the temporary file is removed and ``target`` is untouched.
+    Returns notes on what could not be kept or what ``force`` let through.
     """
-    target = os.path.realpath(target)
+    target, notes = output_target(target, follow_symlinks, force)
     folder = os.path.dirname(target) or "."
     lock = open_elsewhere(target)
     if lock:
-        raise WriteError(f"{os.path.basename(target)} is open in a spreadsheet program ({os.path.basename(lock)} "
-                         "is beside it): close it there first, or write elsewhere with --output; nothing written")
-    fd, tmp = tempfile.mkstemp(prefix=".~fuelsys-", suffix=".tmp", dir=folder)
+        raise WriteError(f"{os.path.basename(target)} is open in a spreadsheet program ({describe_lock(lock)}); "
+                         "or write elsewhere with --output; nothing written")
+    clean_stale_temps(folder)
+    fd, tmp = tempfile.mkstemp(prefix=f".~fuelsys-{os.getpid()}-", suffix=".tmp", dir=folder)
     try:
         with os.fdopen(fd, "wb") as fh:
             for i in range(0, len(payload), _CHUNK):
                 _write_chunk(fh, payload[i:i + _CHUNK])
             fh.flush()
             os.fsync(fh.fileno())
-        src_mode = None
-        for p in (target, mode_from):
-            if p and os.path.exists(p):
-                src_mode = os.stat(p).st_mode & 0o7777
-                break
-        if src_mode is not None:
-            os.chmod(tmp, src_mode)
+        if os.path.exists(target):
+            _keep_attributes(target, tmp, notes)
+        elif mode_from and os.path.exists(mode_from):
+            os.chmod(tmp, stat.S_IMODE(os.stat(mode_from).st_mode))
         if expect_stat:
             st = os.stat(target)
             if (st.st_size, st.st_mtime_ns) != tuple(expect_stat):
@@ -1207,16 +1384,21 @@ def atomic_write(target: str, payload: bytes, mode_from: str | None = None, expe
         except OSError:
             pass
         raise
+    return notes
 
 
-def write_values(book: Book, updates: dict, target) -> list[str]:
+def write_values(book: Book, updates: dict, target, follow_symlinks: bool = False, force: bool = False,
+                 notes: list | None = None) -> list[str]:
     """Store ``updates`` (sheet index -> {(row, col): value}) in a copy of ``book`` at ``target``.
 
-    ``target`` may be the book's own path (replaced atomically).  Returns the
-    names of the sheet parts that changed.  Raises :class:`WriteError`, with
-    the original untouched, when anything does not check out.
+    ``target`` may be the book's own path (replaced atomically); the output
+    policy of :func:`output_target` applies.  Returns the names of the sheet
+    parts that changed; ``notes`` (a list) receives what could not be kept.
+    Raises :class:`WriteError`, with the original untouched, when anything
+    does not check out.
     """
     target = os.fspath(target)
+    output_target(target, follow_symlinks, force)  # refuse before any work
     replace = {}
     with book._zip() as zf:
         sst = _shared_strings(book, zf)
@@ -1233,7 +1415,10 @@ def write_values(book: Book, updates: dict, target) -> list[str]:
         return []
     payload = rebuild_zip(book.data, replace) if replace else book.data
     _verify_package(book.data, payload, replace)
-    atomic_write(target, payload, mode_from=book.path, expect_stat=book.stat if same_file else None)
+    kept = atomic_write(target, payload, mode_from=book.path, expect_stat=book.stat if same_file else None,
+                        follow_symlinks=follow_symlinks, force=force)
+    if notes is not None:
+        notes.extend(kept)
     return sorted(replace)
 
 
