@@ -59,6 +59,12 @@ def add_commands(subparsers) -> None:
     p.add_argument("--progress", action="store_true", help="show a progress bar even when not on a terminal")
     p.add_argument("--notes", action="store_true",
                    help="list the cells computed outside a correlation's fitted range")
+    p.add_argument("--follow-symlinks", action="store_true",
+                   help="when the book or --output is a symbolic link, replace the file it points to "
+                        "(without this flag a link is refused)")
+    p.add_argument("--force", action="store_true",
+                   help="replace a read-only or hard-linked file all the same (it stays read-only; other hard "
+                        "links keep the old file)")
     p.set_defaults(func=cmd_recalc)
 
     p = subparsers.add_parser(
@@ -218,7 +224,8 @@ def cmd_recalc(args) -> int:
     progress = _progress_for(args, "computing")
     try:
         rep = ev.recalc_workbook(args.book, output=args.output, allow_partial=args.allow_partial,
-                                 progress=progress)
+                                 progress=progress, follow_symlinks=getattr(args, "follow_symlinks", False),
+                                 force=getattr(args, "force", False))
     except xlsx.WorkbookRefused as exc:
         _err(f"fuelsys recalc: refused: {exc}")
         return 2
@@ -229,6 +236,8 @@ def cmd_recalc(args) -> int:
         if progress is not None:
             progress.close()
     _list_skipped(rep.skipped)
+    for w in rep.warnings:
+        _err(f"note: {w}")
     if getattr(args, "notes", False):
         for cell, notes in rep.notes:
             for n in notes:
@@ -259,8 +268,13 @@ def _recalc_libreoffice(args) -> int:
     except xlsx.WorkbookRefused as exc:
         _err(f"fuelsys recalc: refused: {exc}")
         return 2
+    try:  # the same output policy as the built-in engine: no links, devices, read-only or linked files
+        target, _ = xlsx.output_target(args.output, getattr(args, "follow_symlinks", False),
+                                       getattr(args, "force", False))
+    except xlsx.WriteError as exc:
+        _err(f"fuelsys recalc: nothing written: {exc}")
+        return 2
     t0 = time.perf_counter()
-    target = os.path.realpath(args.output or args.book)
     try:
         # recalc_book writes through a temporary file beside the target and replaces it atomically
         info = recalc_book(args.book, target)
