@@ -17,6 +17,8 @@ Conversion factors: [NIST] NIST SP 811 (2008), Appendix B.8/B.9.
 import math
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from fuelsys.sheet import builtins as bi
 from fuelsys.sheet import evaluate as ev
@@ -299,3 +301,36 @@ def test_text_to_number_conversion():
     assert E('" 2.5e1 "*1') == 25.0
     assert E('"50%"*1') == 0.5
     assert E('""+1') == bi.VALUE  # an empty text is not a number (from memory)
+
+
+def _match_by_scan(lookup, vals, mt):
+    """MATCH with match_type 1 or -1 as [MATCH] describes it, value by value: the position of the
+    last value <= (>=) the lookup before the first that is not, on 15 significant digits."""
+    best = None
+    for i, v in enumerate(vals):
+        if type(v) is not float:
+            continue
+        c = bi.compare(v, lookup)
+        if (mt > 0 and c <= 0) or (mt < 0 and c >= 0):
+            best = i
+        else:
+            break
+    return bi.NA if best is None else float(best + 1)
+
+
+_near = st.sampled_from([0.1 + 0.2, 0.3, 1.0, 1.0 + 1e-15, 1.0 + 2e-16, 2.5, -7.0, 1e300])
+
+
+@settings(max_examples=300, deadline=None)
+@given(st.lists(st.one_of(st.floats(-1e6, 1e6, allow_nan=False), _near, st.none(), st.just("x")), max_size=30),
+       st.one_of(st.floats(-1e6, 1e6, allow_nan=False), _near), st.sampled_from([1.0, -1.0]),
+       st.sampled_from(["sorted", "reversed", "as drawn"]))
+def test_match_bisection_agrees_with_the_scan(values, lookup, mt, how):
+    nums = sorted(v for v in values if type(v) is float)
+    if how != "as drawn":
+        it = iter(nums if how == "sorted" else nums[::-1])
+        values = [next(it) if type(v) is float else v for v in values]
+    arr = bi.Array([[v] for v in values] or [[None]])
+    want = _match_by_scan(lookup, [r[0] for r in arr.rows], mt)
+    assert bi.fn_match(lookup, arr, mt) == want
+    assert bi.fn_match(lookup, arr, mt) == want  # again, from the cached index

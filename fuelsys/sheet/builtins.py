@@ -37,6 +37,7 @@ from __future__ import annotations
 
 import math
 import re
+from bisect import bisect_right
 from dataclasses import dataclass
 from decimal import ROUND_DOWN, ROUND_HALF_UP, ROUND_UP, Context, Decimal, InvalidOperation
 from typing import Callable
@@ -90,7 +91,7 @@ class Array:
     used row (everything after it is empty, read back as ``None``).
     """
 
-    __slots__ = ("rows", "nrows", "ncols", "is_ref", "sheet", "r0", "c0", "clipped")
+    __slots__ = ("rows", "nrows", "ncols", "is_ref", "sheet", "r0", "c0", "clipped", "numbers")
 
     def __init__(self, rows, nrows=None, ncols=None, is_ref=False, sheet=None, r0=1, c0=1, clipped=False):
         self.clipped = clipped  # a whole column or row, stored only as far as the sheet is used
@@ -101,6 +102,7 @@ class Array:
         self.sheet = sheet
         self.r0 = r0
         self.c0 = c0
+        self.numbers = None  # MATCH's index of the numbers, built on first use (see _numbers_of)
 
     def at(self, i: int, j: int):
         rows = self.rows
@@ -917,6 +919,36 @@ def _wildcard(pattern: str):
     return re.compile("".join(out) + r"\Z", re.IGNORECASE | re.DOTALL)
 
 
+def _negative(x):
+    return -x
+
+
+def _numbers_of(arr):
+    """(positions, 15-digit keys, order) of the numbers in a one-row or one-column array.
+
+    ``order`` is 2 when every key is equal, 1 when they never fall, -1 when they
+    never rise, 0 otherwise.  Built once per array (a range is one cached array
+    for every formula that reads it), so a MATCH over a sorted range costs a
+    bisection, not a scan.
+    """
+    idx = arr.numbers
+    if idx is None:
+        pos, keys = [], []
+        odd = False
+        for i, v in enumerate(arr.values()):
+            t = type(v)
+            if t is float or t is int:
+                pos.append(i)
+                keys.append(round15(float(v)))
+            elif not (v is None or t is str or t is bool or t is XlError):
+                odd = True  # something the scan would compare in its own way
+        rises = any(a < b for a, b in zip(keys, keys[1:]))
+        falls = any(a > b for a, b in zip(keys, keys[1:]))
+        order = 0 if odd or (rises and falls) else (1 if rises else (-1 if falls else 2))
+        idx = arr.numbers = (pos, keys, order)
+    return idx
+
+
 @builtin("MATCH", 2, 3, "vrv", "position of a value in a single row or column")
 def fn_match(lookup, arr, mtype=1.0):
     if type(lookup) is XlError:
@@ -932,9 +964,9 @@ def fn_match(lookup, arr, mtype=1.0):
     mt = _whole(mtype)
     if type(mt) is XlError:
         return mt
-    vals = list(arr.values()) if arr.nrows == 1 or arr.ncols == 1 else []
     rank = _rank(lookup)
     if mt == 0:
+        vals = list(arr.values())
         if type(lookup) is str and any(ch in lookup for ch in "*?~"):
             rx = _wildcard(lookup)
             for i, v in enumerate(vals):
@@ -945,6 +977,18 @@ def fn_match(lookup, arr, mtype=1.0):
             if v is not None and type(v) is not XlError and _rank(v) == rank and compare(v, lookup) == 0:
                 return float(i + 1)
         return NA
+    if rank == 0 and type(lookup) is not bool:
+        pos, keys, order = _numbers_of(arr)
+        if (mt > 0 and order in (1, 2)) or (mt < 0 and order in (-1, 2)):
+            # sorted as MATCH takes them: the last number <= (or >=) the lookup on 15 digits,
+            # found by bisection -- what the scan below gives on a sorted range
+            x = round15(float(lookup))
+            if mt > 0:
+                k = bisect_right(keys, x) - 1
+            else:  # the keys fall: those >= x come first
+                k = bisect_right(keys, -x, key=_negative) - 1
+            return NA if k < 0 else float(pos[k] + 1)
+    vals = list(arr.values())
     best = None
     for i, v in enumerate(vals):
         if v is None or type(v) is XlError or _rank(v) != rank:

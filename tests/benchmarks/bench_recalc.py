@@ -13,6 +13,7 @@
 
 from __future__ import annotations
 
+import os
 import subprocess
 import sys
 import tempfile
@@ -64,6 +65,49 @@ def _mixed_book(path, n_cells: int, fn: str):
     _package(path, "".join(rows))
 
 
+def _mixed_lookup_book(path, n_cells: int, fn: str):
+    """n_cells formula cells in thirds: a catalogue call, built-ins on it, and an approximate
+    MATCH of the input in a sorted 1,000-row table with INDEX into the next column."""
+    rows = []
+    for i in range(1, n_cells // 3 + 1):
+        t = 10.0 + (i % 99_991) * 1e-3  # distinct temperatures [°C]
+        rows.append(f'<row r="{i}"><c r="A{i}"><v>{t!r}</v></c>'
+                    f'<c r="B{i}"><f>{fn}("kerosene",A{i})</f></c>'
+                    f'<c r="C{i}"><f>IF(ISNUMBER(B{i}),ROUND(B{i}*2+A{i},3),-1)</f></c>'
+                    f'<c r="D{i}"><f>INDEX($G$1:$G$1000,MATCH(A{i},$F$1:$F$1000,1))</f></c></row>')
+    # the lookup table lives in columns F:G of rows 1..1000 (merged into those rows)
+    cells = {}
+    for i in range(1, 1001):
+        cells[i] = f'<c r="F{i}"><v>{10.0 + i * 0.1!r}</v></c><c r="G{i}"><v>{i * 2}</v></c>'
+    out = []
+    for i, row in enumerate(rows, 1):
+        out.append(row.replace("</row>", cells.pop(i, "") + "</row>"))
+    for i in sorted(cells):
+        out.append(f'<row r="{i}">{cells[i]}</row>')
+    _package(path, "".join(out))
+    return n_cells // 3 * 3
+
+
+_FRESH = """
+import resource, sys, time
+from fuelsys.sheet import evaluate as ev
+t0 = time.perf_counter()
+rep = ev.recalc_workbook(sys.argv[1], output=sys.argv[2])
+t = time.perf_counter() - t0
+assert rep.ok, rep.summary()
+print(t, rep.computed, resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024.0)
+"""
+
+
+def _fresh_recalc(path, out):
+    """(seconds, cells computed, peak resident MB) of one recalc in a fresh interpreter."""
+    env = dict(os.environ, PYTHONPATH=str(ROOT))
+    p = subprocess.run([sys.executable, "-c", _FRESH, str(path), str(out)], check=True, capture_output=True,
+                       text=True, env=env, cwd=str(ROOT))
+    t, n, mb = p.stdout.split()
+    return float(t), int(n), float(mb)
+
+
 def _array_vs_cells(folder: Path, fn: str, n: int = 1000):
     inputs = [f'<c r="A{i}"><v>{10.0 + i * 0.01!r}</v></c>' for i in range(1, n + 1)]
     cells = "".join(f'<row r="{i}">{inputs[i - 1]}<c r="B{i}"><f>{fn}("kerosene",A{i})</f></c></row>'
@@ -112,6 +156,25 @@ def run(report):
                "ratio 1 = linear growth; above 1 = better than linear")
         report("recalc 10,000 cells against 10x the 1,000-cell time", 10 * times[1_000], times[10_000],
                "ratio 1 = linear growth")
+
+        # issue 17: 100k mixed cells (a third MATCH/INDEX on a sorted table), each size in a fresh
+        # interpreter; goals: time per cell at 100k within 1.2x of that at 10k, peak memory < 400 MB
+        per_cell, peak = {}, {}
+        for n in (10_000, 100_000):
+            path = folder / f"lookup_{n}.xlsx"
+            cells = _mixed_lookup_book(path, n, fn)
+            best = None
+            for _ in range(2 if n == 10_000 else 1):
+                t, computed, mb = _fresh_recalc(path, folder / f"lookup_out_{n}.xlsx")
+                assert computed == cells
+                best = t if best is None else min(best, t)
+            per_cell[n], peak[n] = best / cells, mb
+            report(f"recalc {cells:,} mixed cells with MATCH/INDEX, fresh interpreter", None, best,
+                   f"{best / cells * 1e6:.1f} µs a cell; peak resident memory {mb:.0f} MB")
+        report("time per cell at 100k vs at 10k (mixed, MATCH/INDEX)", per_cell[10_000], per_cell[100_000],
+               f"goal: ratio >= {1 / 1.2:.2f} (100k within 1.2x of 10k per cell); "
+               f"per-cell ratio 100k/10k = {per_cell[100_000] / per_cell[10_000]:.2f}; "
+               f"peak memory at 100k {peak[100_000]:.0f} MB (goal < 400 MB)")
 
         n = 100_000
         chain = folder / "chain.xlsx"
