@@ -43,8 +43,26 @@ def _entrance(text):
         return text
 
 
+#: (fuel, oil share, temperature) -> (density, viscosity) of single-cell calls: a book asks for the
+#: same fuel at the same temperature in many cells (the fuel object is the key, so it stays alive)
+_PROPS_CACHE: dict = {}
+
+
 def _props(fuel, T, oil_pct):
     """Liquid density [kg/m³] and viscosity [Pa·s] of the fuel (with oil) at T [K]."""
+    if type(T) is float and getattr(type(fuel), "__hash__", None) is not None:
+        key = (fuel, float(oil_pct or 0.0), T)
+        hit = _PROPS_CACHE.get(key)
+        if hit is None:
+            hit = _props_now(fuel, T, oil_pct)
+            if len(_PROPS_CACHE) > 4096:
+                _PROPS_CACHE.clear()
+            _PROPS_CACHE[key] = hit
+        return hit
+    return _props_now(fuel, T, oil_pct)
+
+
+def _props_now(fuel, T, oil_pct):
     if getattr(fuel, "name", "") == "air":
         raise FuelsysInputError("fuel: air is a gas; the needle and line models are for liquids "
                                 "(for a gas jet use FS_GAS_JET_FLOW)")
