@@ -78,6 +78,31 @@ def property_tables(out=None) -> None:
     _print_table(rows, [c[0] for c in cols], out)
 
 
+_NOTE_RE = None
+
+
+def in_table_units(note: str) -> str:
+    """A validity note in the units of the printed tables: kelvin as °C, pascal as bar.
+
+    The core speaks SI (``temperature 233.1 outside its range 255.4..422 [K]``);
+    the tables are in °C and bar, so the note is restated in them.
+    """
+    import re
+
+    global _NOTE_RE
+    if _NOTE_RE is None:
+        num = r"(-?[\d.]+(?:e[-+]?\d+)?)"
+        _NOTE_RE = re.compile(rf"{num} outside its range {num}\.\.{num} \[(K|Pa)\]")
+
+    def convert(m):
+        v, lo, hi, unit = float(m.group(1)), float(m.group(2)), float(m.group(3)), m.group(4)
+        if unit == "K":
+            return f"{v - 273.15:.3g} outside its range {lo - 273.15:.3g}..{hi - 273.15:.3g} [°C]"
+        return f"{v / 1e5:.4g} outside its range {lo / 1e5:.4g}..{hi / 1e5:.4g} [bar abs]"
+
+    return _NOTE_RE.sub(convert, note)
+
+
 def _version() -> str:
     import fuelsys
 
@@ -92,7 +117,7 @@ def _cmd_properties(args) -> int:
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ValidityWarning)
         property_tables(sys.stdout)
-    notes = sorted({str(w.message) for w in caught if issubclass(w.category, ValidityWarning)})
+    notes = sorted({in_table_units(str(w.message)) for w in caught if issubclass(w.category, ValidityWarning)})
     if notes:
         print("\nOutside a correlation's fitted range (computed, but treat with care):")
         for n in notes:
@@ -135,10 +160,15 @@ def _cmd_demo(args) -> int:
     print("(a scenario of our own invention: the engine, its club and every figure in it are fictional)")
     print("computing the demo book ...", flush=True)
     reports = []
-    path = book.write_demo(args.folder, reports=reports)
+    replaced = []
+    path = book.write_demo(args.folder, reports=reports, replaced=replaced)
     rows = book.read_summary(path)
     if path.name != book.DEMO_NAME:
-        print(f"(kept the edited {book.DEMO_NAME} that was here; the new demo book has its own name)")
+        print(f"kept the edited {book.DEMO_NAME} that was here (its inputs or formulas differ from the demo's); "
+              f"the new demo book has its own name")
+    if replaced:
+        print(f"replaced the earlier demo book {replaced[0]} (its inputs and formulas were the demo's own, "
+              "so nothing of yours was in it)")
     print(f"wrote {path} ({time.perf_counter() - t0:.1f} s); its Summary sheet says:\n")
     print_summary(rows)
     notes = reports[-1].notes if reports else []
@@ -192,6 +222,198 @@ def _cmd_excel_setup(args) -> int:
     return 0
 
 
+#: an area of at most this many cells is written out as an array constant in an example
+EXAMPLE_AREA_CELLS = 40
+
+
+def _literal(v) -> str | None:
+    """A stored cell value as a formula constant (None for an empty cell or an error)."""
+    from fuelsys.sheet.builtins import number_text
+
+    if isinstance(v, bool):
+        return "TRUE" if v else "FALSE"
+    if isinstance(v, float):
+        return number_text(float(f"{v:.6g}"))
+    if isinstance(v, str) and v and not v.startswith("FS error:"):
+        return '"' + v.replace('"', '""') + '"'
+    return None
+
+
+class _BookExamples:
+    """Self-contained calls of the FS_ functions built from a computed book's own inputs.
+
+    Each FS_ call in the book's formulas whose arguments are constants, cells,
+    defined names of cells or small ranges is written out with the stored
+    values in place of the references; a function the book does not call on
+    such arguments borrows each argument's value, by name, from the calls of
+    other functions.
+    """
+
+    def __init__(self, path):
+        from fuelsys.sheet import catalogue
+        from fuelsys.sheet import evaluate as ev
+        from fuelsys.sheet.xlsx import read_book
+
+        self.book = read_book(path)
+        self.ev = ev
+        self.sheets = {s.name.upper(): s for s in self.book.sheets}
+        self.names = {dn.name.upper(): dn.text for dn in self.book.names if dn.scope is None}
+        funcs = catalogue.functions()
+        self.calls: dict[str, str] = {}
+        self.by_arg: dict[str, str] = {}
+        for sheet in self.book.sheets:
+            for (r, c), f in sorted(sheet.formulas.items()):
+                if not f.text or "FS_" not in f.text.upper():
+                    continue
+                try:
+                    tree = ev.parse(f.text)
+                except Exception:
+                    continue
+                for name, args in self._calls(tree):
+                    spec = funcs.get(name)
+                    if spec is None:
+                        continue
+                    texts = [self._arg(a, sheet) for a in args]
+                    for a, t in zip(spec.args, texts):
+                        if t is not None and t != "":
+                            self.by_arg.setdefault(a.name, t)
+                    if name not in self.calls and all(t is not None for t in texts):
+                        self.calls[name] = f"{name}({', '.join(texts)})"
+
+    def _calls(self, node):
+        if isinstance(node, tuple):
+            if node and node[0] == "call":
+                yield node[1].upper(), node[2]
+                for a in node[2]:
+                    yield from self._calls(a)
+            else:
+                for x in node[1:]:
+                    if isinstance(x, tuple):
+                        yield from self._calls(x)
+                    elif isinstance(x, list):
+                        for y in x:
+                            yield from self._calls(y)
+
+    def _arg(self, node, sheet, depth=0):
+        kind = node[0]
+        if kind == "num":
+            return _literal(float(node[1]))
+        if kind == "str":
+            return _literal(node[1]) or '""'
+        if kind == "bool":
+            return _literal(bool(node[1]))
+        if kind == "missing" or node == ("missing",):
+            return ""
+        if kind == "un" and node[1] == "-" and node[2][0] == "num":
+            return _literal(-float(node[2][1]))
+        if kind == "cell":
+            target = self.sheets.get((node[1] or sheet.name).upper())
+            return _literal(target.cells.get((node[2], node[3]))) if target else None
+        if kind == "area":
+            target = self.sheets.get((node[1] or sheet.name).upper())
+            _, _, r1, c1, r2, c2 = node[:6]
+            if target is None or None in (r1, c1, r2, c2) or (r2 - r1 + 1) * (c2 - c1 + 1) > EXAMPLE_AREA_CELLS:
+                return None
+            rows = []
+            for r in range(r1, r2 + 1):
+                row = [_literal(target.cells.get((r, c))) for c in range(c1, c2 + 1)]
+                if None in row:
+                    return None
+                rows.append(",".join(row))
+            return "{" + ";".join(rows) + "}"
+        if kind == "name" and depth < 3:
+            text = self.names.get(node[2].upper())
+            if text is None:
+                return None
+            try:
+                return self._arg(self.ev.parse(text), sheet, depth + 1)
+            except Exception:
+                return None
+        return None
+
+    def formula(self, spec) -> str | None:
+        if spec.name in self.calls:
+            return self.calls[spec.name]
+        texts = []
+        for a in spec.args:
+            t = self.by_arg.get(a.name)
+            if t is None and a.kind == "fuel":
+                t = '"kerosene"'
+            if t is None:
+                if a.required:
+                    return None
+                break
+            texts.append(t)
+        return f"{spec.name}({', '.join(texts)})"
+
+
+def function_example(spec, book_path=None):
+    """(formula, value, notes) of an example call of ``spec`` with the demo book's figures, or None.
+
+    The formula is self-contained (constants only) and is computed here, so the
+    result shown is what the function gives today.
+    """
+    from fuelsys.sheet import evaluate as ev
+    from fuelsys.sheet.adapt import set_note_sink
+
+    if book_path is None:
+        from fuelsys.sheet.starter import EXAMPLE_PATH
+
+        book_path = EXAMPLE_PATH
+    if not spec.args:
+        text = f"{spec.name}()"
+    else:
+        try:
+            text = _BookExamples(book_path).formula(spec)
+        except Exception:  # no demo book here (an installed package), or one that does not read
+            return None
+        if text is None:
+            return None
+    sink: list = []
+    outer = set_note_sink(sink)
+    try:
+        value = ev.evaluate_formula(text)
+    except Exception:
+        return None
+    finally:
+        set_note_sink(outer)
+    return text, value, list(dict.fromkeys(sink))
+
+
+def describe_function(spec) -> str:
+    """``fuelsys functions NAME``: arguments, method, validity and an example with its result."""
+    import textwrap
+
+    from fuelsys.sheet.commands import format_table, _text
+
+    lines = [spec.help_text(), ""]
+    lines += textwrap.wrap(f"method: {spec.source}", 96, subsequent_indent="  ")
+    bounds = [f"{a.name} {a.range_text()}" for a in spec.args if a.range_text()]
+    lines += textwrap.wrap("validity: inputs " + ("; ".join(bounds) if bounds else "as described above")
+                           + " (outside these the cell shows an FS error text). Inside them, a result "
+                           "computed outside a correlation's fitted range is still given but flagged: "
+                           "the example shows its flags, and 'fuelsys recalc BOOK --notes' lists a book's.",
+                           96, subsequent_indent="  ")
+    ex = function_example(spec)
+    if ex is None:
+        lines.append("example: none can be built here (the demo book does not call it on plain values)")
+    else:
+        text, value, notes = ex
+        lines.append("example (the demo book's figures):")
+        lines.append(f"  fuelsys eval '{text}'")
+        def short(v):
+            return float(f"{v:.6g}") if isinstance(v, float) else v
+
+        if hasattr(value, "full_rows"):
+            rows = [[short(v) for v in row] for row in value.full_rows()]
+            lines.append(textwrap.indent(format_table(rows), "    "))
+        else:
+            lines.append(f"    {_text(short(value))}")
+        for n in notes:
+            lines += textwrap.wrap(f"flagged: {n}", 96, initial_indent="    ", subsequent_indent="      ")
+    return "\n".join(lines)
+
+
 def _cmd_functions(args) -> int:
     from fuelsys.sheet import catalogue
 
@@ -202,7 +424,7 @@ def _cmd_functions(args) -> int:
         if key not in funcs:
             print(f"fuelsys functions: no function {args.name}; 'fuelsys functions' lists them", file=sys.stderr)
             return 2
-        print(funcs[key].help_text())
+        print(describe_function(funcs[key]))
         return 0
     for spec in funcs.values():
         print(f"{spec.signature():70s} {spec.summary}")
@@ -218,23 +440,46 @@ def build_parser() -> argparse.ArgumentParser:
     )
     parser.add_argument("--version", action="version", version=f"fuelsys {_version()}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
-    p = sub.add_parser("demo", help="size the fictional demo engine: write its computed book and print a summary")
+    p = sub.add_parser(
+        "demo", help="size the fictional demo engine: write its computed book and print a summary",
+        description="Build the book of the demo engine (a fictional engine of our own invention), compute it "
+                    "and print its Summary sheet. It writes fuelsys-demo.xlsx in the folder; an earlier demo "
+                    "book there is replaced only when its inputs and formulas are the demo's own (it says "
+                    "so), and a demo book you edited is kept: the new one then gets the next free name.")
     p.add_argument("--folder", default=".", help="where to write fuelsys-demo.xlsx (default: here)")
     p.set_defaults(func=_cmd_demo)
-    p = sub.add_parser("properties", help="print property tables of the built-in kerosene and canister gases")
+    p = sub.add_parser(
+        "properties", help="print property tables of the built-in kerosene and canister gases",
+        description="Print the built-in kerosene's liquid properties from -40 to 150 °C and the canister "
+                    "pressure of propane, a propane/butane blend and butane from -20 to 40 °C, with any "
+                    "value computed outside a correlation's fitted range named in the tables' units.")
     p.set_defaults(func=_cmd_properties)
-    p = sub.add_parser("new", help="start a book for your own engine from the starter workbook")
+    p = sub.add_parser(
+        "new", help="start a book for your own engine from the starter workbook",
+        description="Write a copy of the starter workbook under a new name, to fill in with your own "
+                    "engine's figures (the shaded cells). An existing file is never replaced unless --force.")
     p.add_argument("book", help="the new book's file name (.xlsx)")
     p.add_argument("--force", action="store_true", help="overwrite an existing file")
     p.set_defaults(func=_cmd_new)
-    p = sub.add_parser("diff", help="list inputs and results that differ between two versions of a book")
+    p = sub.add_parser(
+        "diff", help="list inputs and results that differ between two versions of a book",
+        description="Compare two versions of a book, cell by cell, and name each difference by sheet, "
+                    "row label and column heading: the inputs and formulas that were changed, and the "
+                    "results that follow from them. Exit status 0 when nothing differs, 1 when something does, 2 when a book is refused.")
     p.add_argument("old", help="the original book")
     p.add_argument("new", help="the edited copy")
     p.add_argument("--rel-tol", type=float, default=1e-9, help="relative tolerance for numbers (default 1e-9)")
     p.set_defaults(func=_cmd_diff)
-    p = sub.add_parser("excel-setup", help="print the steps to use the FS_ functions live in Excel (xlwings)")
+    p = sub.add_parser(
+        "excel-setup", help="print the steps to use the FS_ functions live in Excel (xlwings)",
+        description="Print the steps that make the FS_ functions work live in Excel on Windows through the "
+                    "xlwings add-in (not tested on this project's Linux machines).")
     p.set_defaults(func=_cmd_excel_setup)
-    p = sub.add_parser("functions", help="list the spreadsheet functions, or describe one")
+    p = sub.add_parser(
+        "functions", help="list the spreadsheet functions, or describe one",
+        description="List every FS_ spreadsheet function with its arguments, or describe one: its "
+                    "arguments and units, its method and source, the allowed inputs, and an example "
+                    "built from the demo book's figures, computed here.")
     p.add_argument("name", nargs="?", help="a function name such as FS_NEEDLE_FLOW")
     p.set_defaults(func=_cmd_functions)
     for modname in COMMAND_MODULES:

@@ -206,3 +206,90 @@ def test_check_finds_a_stale_book_after_an_input_edit(tmp_path, capsys):
     assert main(["check", path]) == 1
     out = capsys.readouterr().out
     assert "S!B1: stored 30, computed 32" in out and "S!B3" in out and "S!A1" not in out
+
+
+# ---------------------------------------------------------------------------
+# FS errors make recalc and check fail unless --allow-errors; eval hints at quotes
+
+def error_book(path):
+    wb = openpyxl.Workbook()
+    s = wb.active
+    s.title = "S"
+    s["A1"] = -0.3
+    s["B1"] = '=FS_NEEDLE_OD(A1)'  # a gauge must be a whole number > 0: an FS error text
+    s["B2"] = "=A1*2"
+    s["B3"] = "=1/0"
+    s["B4"] = "=NA()"  # #N/A leaves a gap in a chart; not counted as a failure
+    wb.save(path)
+    return path
+
+
+def test_recalc_and_check_fail_on_fs_errors_unless_allowed(tmp_path, capsys):
+    path = error_book(str(tmp_path / "e.xlsx"))
+    assert main(["recalc", path]) == 1
+    out = capsys.readouterr().out
+    assert "2 formula cell(s) hold an FS error or an error value" in out
+    assert "S!B1: FS error:" in out and "S!B3: #DIV/0!" in out and "S!B4" not in out
+    assert "--allow-errors" in out
+    # the values were stored all the same (a recalc that reports errors still computes the book)
+    assert openpyxl.load_workbook(path, data_only=True)["S"]["B2"].value == -0.6
+    assert main(["recalc", path, "--allow-errors"]) == 0
+    assert "allowed by --allow-errors" in capsys.readouterr().out
+    assert main(["check", path]) == 1
+    out = capsys.readouterr().out
+    assert "0 differ" in out and "S!B1: FS error:" in out and "inputs digest " in out
+    assert main(["check", path, "--allow-errors"]) == 0
+
+
+def test_error_listing_names_the_first_few_and_counts_the_rest(tmp_path, capsys):
+    from fuelsys.sheet.commands import ERROR_LIST
+
+    wb = openpyxl.Workbook()
+    s = wb.active
+    s.title = "S"
+    for r in range(1, 10):
+        s.cell(r, 1, f"=FS_NEEDLE_OD({-r})")
+    path = str(tmp_path / "many.xlsx")
+    wb.save(path)
+    assert main(["recalc", path]) == 1
+    out = capsys.readouterr().out
+    assert "9 formula cell(s)" in out and f"... and {9 - ERROR_LIST} more" in out
+    assert sum(1 for line in out.splitlines() if line.startswith("  S!A")) == ERROR_LIST
+
+
+def test_inputs_digest_follows_inputs_and_formulas_not_results(tmp_path):
+    from fuelsys.sheet import xlsx
+    from fuelsys.sheet.book import inputs_digest
+
+    path = small_book(str(tmp_path / "b.xlsx"))
+    d0 = inputs_digest(xlsx.read_book(path))
+    main(["recalc", path])
+    assert inputs_digest(xlsx.read_book(path)) == d0  # stored results do not enter it
+    _rewrite_member(path, "xl/worksheets/sheet1.xml", lambda d: d.replace(b"<v>15</v>", b"<v>16</v>"))
+    d1 = inputs_digest(xlsx.read_book(path))
+    _rewrite_member(path, "xl/worksheets/sheet1.xml", lambda d: d.replace(b"A1*2", b"A1*3"))
+    d2 = inputs_digest(xlsx.read_book(path))
+    assert len({d0, d1, d2}) == 3 and len(d0) == 16
+
+
+def test_eval_suggests_quotes_for_bare_fuel_names(capsys):
+    assert main(["eval", "FS_DENSITY(kerosene,15)"]) == 1
+    out = capsys.readouterr()
+    assert out.out.strip() == "#NAME?"
+    assert "kerosene is a text" in out.err and """fuelsys eval 'FS_DENSITY("kerosene",15)'""" in out.err
+    assert main(["eval", "FS_CANISTER_PRESSURE(lpg-70-30, 15)"]) == 1
+    assert """FS_CANISTER_PRESSURE("lpg-70-30", 15)""" in capsys.readouterr().err
+    # a bare name that is no fuel gets the general hint; a quoted name is left alone
+    assert main(["eval", "FS_DENSITY(nosuchthing,15)"]) == 1
+    err = capsys.readouterr().err
+    assert "not a function, a cell or a defined name" in err and "nosuchthing is a text" not in err
+    assert main(["eval", 'FS_DENSITY("kerosene",15)']) == 0
+    assert capsys.readouterr().err == ""
+
+
+def test_text_hints_keep_quoted_texts_and_function_names():
+    from fuelsys.sheet.commands import text_hints
+
+    found, fixed = text_hints('FS_DENSITY(Kerosene, 15)&" kerosene"&FS_VERSION()')
+    assert found == ["Kerosene"] and fixed == 'FS_DENSITY("Kerosene", 15)&" kerosene"&FS_VERSION()'
+    assert text_hints("FS_DENSITY(A1, 15)") == ([], "FS_DENSITY(A1, 15)")

@@ -46,6 +46,38 @@ def _cell_address(r: int, c: int) -> str:
     return cell_name(r, c)
 
 
+def inputs_digest(book) -> str:
+    """A short SHA-256 digest of a parsed book's inputs and formulas.
+
+    It covers every worksheet's constant cells (not the stored results) and the
+    text of every formula, so two books with the same digest compute the same
+    results; ``fuelsys check`` prints it and ``fuelsys share`` writes it into
+    the copy, so a reader can tell which book a shared copy came from.
+    """
+    import hashlib
+
+    h = hashlib.sha256()
+    for sheet in book.sheets:
+        if sheet.kind != "worksheet":
+            continue
+        spilled = _array_cells(sheet)
+        keys = sorted(set(sheet.cells) | set(sheet.formulas))
+        for r, c in keys:
+            f = sheet.formulas.get((r, c))
+            if f is not None:
+                item = ("f", f.text if f.text is not None else f"shared {f.si}", f.kind)
+            elif (r, c) in spilled:
+                continue
+            else:
+                v = sheet.cells.get((r, c))
+                if v is None or v == "":
+                    continue
+                item = ("v", type(v).__name__, repr(v))
+            h.update(repr((sheet.name, r, c) + item).encode("utf-8"))
+            h.update(b"\n")
+    return h.hexdigest()[:16]
+
+
 def read_summary(path) -> list[tuple[str, object]]:
     """(label, cached value) rows of the book's Summary sheet."""
     from fuelsys.sheet.xlsx import read_book
@@ -77,12 +109,14 @@ def _is_build_date(d) -> bool:
                                            for v in (d.old, d.new))
 
 
-def write_demo(folder=".", progress=None, reports: list | None = None) -> Path:
+def write_demo(folder=".", progress=None, reports: list | None = None, replaced: list | None = None) -> Path:
     """Build the demo engine's book in ``folder`` (computed) and return its path.
 
     An existing ``fuelsys-demo.xlsx`` is replaced only when it is an unedited
     demo book; one whose inputs or formulas someone changed is kept, and the
-    new book gets the next free name (``fuelsys-demo-1.xlsx`` ...).
+    new book gets the next free name (``fuelsys-demo-1.xlsx`` ...).  The
+    path of a book that was replaced is appended to ``replaced``, so the
+    caller can say so.
     """
     from fuelsys.sheet import starter
 
@@ -95,6 +129,8 @@ def write_demo(folder=".", progress=None, reports: list | None = None) -> Path:
         while target.exists() and _edited(target, tmp):
             k += 1
             target = folder / f"{Path(DEMO_NAME).stem}-{k}.xlsx"
+        if target.exists() and replaced is not None:
+            replaced.append(target)
         os.replace(tmp, target)
     finally:
         if tmp.exists():

@@ -12,9 +12,11 @@
     exactly): stale after an edit, or computed by another fuelsys version.
 
 Exit status: 0 when all went well; 1 when a value is an error (``eval``),
-cells could not be computed (``recalc`` without ``--allow-partial``) or stored
-values differ (``check``); 2 when the input was refused or the command could
-not run.
+cells could not be computed (``recalc`` without ``--allow-partial``), stored
+values differ (``check``), or a formula cell holds an ``FS error:`` text or an
+error value such as ``#VALUE!`` (``recalc`` and ``check`` without
+``--allow-errors``; ``#N/A``, which books use to leave a gap in a chart, does
+not count); 2 when the input was refused or the command could not run.
 """
 
 from __future__ import annotations
@@ -48,7 +50,9 @@ def add_commands(subparsers) -> None:
         "recalc", help="compute a workbook's formulas and store the values in it",
         description="Compute every formula of a .xlsx/.xlsm workbook and store the results as the cells' "
                     "cached values, changing nothing else in the file, so the numbers show in any "
-                    "spreadsheet program. Results are estimates: confirm them by bench tests.")
+                    "spreadsheet program. Exit status 1 when a cell could not be computed or a formula "
+                    "cell holds an FS error (unless --allow-partial / --allow-errors). "
+                    "Results are estimates: confirm them by bench tests.")
     p.add_argument("book", help="the workbook (.xlsx or .xlsm)")
     p.add_argument("-o", "--output", help="write the computed workbook here instead of in place")
     p.add_argument("--allow-partial", action="store_true",
@@ -65,24 +69,72 @@ def add_commands(subparsers) -> None:
     p.add_argument("--force", action="store_true",
                    help="replace a read-only or hard-linked file all the same (it stays read-only; other hard "
                         "links keep the old file)")
+    p.add_argument("--allow-errors", action="store_true",
+                   help="exit 0 even when formula cells hold an FS error text or an error value "
+                        "(they are still counted and the first few listed)")
     p.set_defaults(func=cmd_recalc)
 
     p = subparsers.add_parser(
         "check", help="list cells whose stored value differs from a fresh computation",
         description="Recompute a workbook without writing it and list every formula cell whose stored "
                     "value differs from the fresh result (numbers beyond a relative tolerance, texts "
-                    "exactly). Exit status 0 only when none differs.")
+                    "exactly). Exit status 0 only when none differs and no formula cell holds an FS error "
+                    "(--allow-errors lets errors pass). It also prints a digest of the book's inputs, "
+                    "the one 'fuelsys share' writes into a shared copy.")
     p.add_argument("book", help="the workbook (.xlsx or .xlsm)")
     p.add_argument("--tolerance", type=float, default=1e-9,
                    help="relative tolerance for numbers (default 1e-9)")
     p.add_argument("--allow-partial", action="store_true",
                    help="do not fail because some cells could not be computed (they are listed)")
+    p.add_argument("--allow-errors", action="store_true",
+                   help="exit 0 even when formula cells hold an FS error text or an error value")
     p.add_argument("--progress", action="store_true", help="show a progress bar even when not on a terminal")
     p.set_defaults(func=cmd_check)
 
 
 # ---------------------------------------------------------------------------
 # output helpers
+
+#: at most this many error cells are named in the message
+ERROR_LIST = 5
+
+
+def error_cells(book) -> list[tuple[str, str]]:
+    """(cell, text) of the formula cells (array cells included) of a parsed book that hold
+    an ``FS error:`` text or an error value; ``#N/A`` (a chart gap) does not count."""
+    from fuelsys.sheet.builtins import XlError
+    from fuelsys.sheet.evaluate import full_name
+
+    out = []
+    for sheet in book.sheets:
+        cells = set(sheet.formulas)
+        for f in sheet.formulas.values():
+            if f.kind == "array" and f.ref:
+                r1, c1, r2, c2 = f.ref
+                cells.update((r, c) for r in range(r1, r2 + 1) for c in range(c1, c2 + 1))
+        for r, c in sorted(cells):
+            v = sheet.cells.get((r, c))
+            if isinstance(v, str) and v.startswith("FS error:"):
+                out.append((full_name(sheet.name, r, c), v))
+            elif isinstance(v, XlError) and v.code != "#N/A":
+                out.append((full_name(sheet.name, r, c), v.code))
+    return out
+
+
+def _report_errors(cells, allow: bool, out=None) -> bool:
+    """Print the count and the first few error cells; True when they make the command fail."""
+    out = out or sys.stdout
+    if not cells:
+        return False
+    out.write(f"{len(cells)} formula cell(s) hold an FS error or an error value"
+              f"{' (allowed by --allow-errors)' if allow else ''}:\n")
+    for cell, text in cells[:ERROR_LIST]:
+        out.write(f"  {cell}: {text if len(text) <= 100 else text[:97] + '...'}\n")
+    if len(cells) > ERROR_LIST:
+        out.write(f"  ... and {len(cells) - ERROR_LIST} more\n")
+    if not allow:
+        out.write("  fix the inputs these cells name, or pass --allow-errors to accept them\n")
+    return not allow
 
 def _err(msg: str) -> None:
     print(msg, file=sys.stderr)
@@ -172,6 +224,63 @@ def _progress_for(args, label: str):
 # ---------------------------------------------------------------------------
 # eval
 
+_STRING_LITERAL = r'"(?:[^"]|"")*"'
+
+
+def _bare_words(formula: str) -> list[str]:
+    """Names that stand bare (outside double quotes, not followed by "(") in a formula."""
+    import re
+
+    parts = re.split(f"({_STRING_LITERAL})", formula)
+    words = []
+    for k, part in enumerate(parts):
+        if k % 2:  # a string literal
+            continue
+        for m in re.finditer(r"(?<![\w.!'$])([A-Za-z_][\w.-]*)(?![\w(!])", part):
+            words.append(m.group(1))
+    return words
+
+
+def text_hints(formula: str) -> tuple[list[str], str]:
+    """(bare names that are texts fuelsys knows, the formula with them quoted).
+
+    The known texts are the built-in fuel names and the choices of every text
+    argument in the catalogue; a bare name reads as a defined name and gives
+    ``#NAME?``.
+    """
+    import re
+
+    from fuelsys.fuels import known_fuel_names
+    from fuelsys.sheet import catalogue
+
+    known = {n.lower() for n in known_fuel_names()}
+    for spec in catalogue.functions().values():
+        for a in spec.args:
+            known.update(ch.lower() for ch in (a.choices or ()))
+    found = []
+    # the longest names first, so "lpg-70-30" is quoted whole and not as "lpg"
+    for word in sorted({w for w in _bare_words(formula)}, key=len, reverse=True):
+        if word.lower() in known and word not in found:
+            found.append(word)
+    fixed = formula
+    for word in found:
+        parts = re.split(f"({_STRING_LITERAL})", fixed)
+        pat = re.compile(r"(?<![\w.!'$])" + re.escape(word) + r"(?![\w(!-])")
+        fixed = "".join(p if k % 2 else pat.sub('"' + word + '"', p) for k, p in enumerate(parts))
+    return found, fixed
+
+
+def _name_hint(formula: str) -> None:
+    found, fixed = text_hints(formula)
+    if found:
+        names = ", ".join(found)
+        _err(f"hint: {names} {'is a text' if len(found) == 1 else 'are texts'} and need"
+             f"{'s' if len(found) == 1 else ''} double quotes (a bare name means a defined name, "
+             f"hence #NAME?); try:\n  fuelsys eval '{fixed}'")
+    else:
+        _err("hint: #NAME? means a name the formula uses is not a function, a cell or a defined name; "
+             "texts need double quotes and 'fuelsys functions' lists the FS_ functions")
+
 def cmd_eval(args) -> int:
     from fuelsys.sheet import evaluate as ev
     from fuelsys.sheet import xlsx
@@ -191,12 +300,16 @@ def cmd_eval(args) -> int:
     if isinstance(value, Array):
         rows = value.full_rows()
         failed = any(_is_failure(v) for row in rows for v in row)
+        if any(getattr(v, "code", None) == "#NAME?" for row in rows for v in row):
+            _name_hint(args.formula)
         if args.json:
             print(json.dumps({"value": [[_json_value(v) for v in row] for row in rows]}))
         else:
             print(format_table(rows))
     else:
         failed = _is_failure(value)
+        if getattr(value, "code", None) == "#NAME?":
+            _name_hint(args.formula)
         if args.json:
             print(json.dumps({"error": value.code} if hasattr(value, "code") else {"value": value}))
         else:
@@ -243,7 +356,14 @@ def cmd_recalc(args) -> int:
             for n in notes:
                 print(f"  outside a fitted range: {cell}: {n}")
     print(rep.summary())
-    return 0 if rep.written else 1
+    if not rep.written:
+        return 1
+    try:
+        cells = error_cells(xlsx.read_book(rep.output))
+    except xlsx.WorkbookRefused as exc:  # it was just written by us; a failure here is a real problem
+        _err(f"fuelsys recalc: the written book does not read back: {exc}")
+        return 2
+    return 1 if _report_errors(cells, getattr(args, "allow_errors", False)) else 0
 
 
 def _recalc_libreoffice(args) -> int:
@@ -321,6 +441,11 @@ def cmd_check(args) -> int:
     _list_skipped(rep.skipped, sys.stdout)
     print(f"{os.path.basename(args.book)}: {rep.checked} cells checked, {len(rep.differences)} differ, "
           f"{len(rep.skipped)} could not be computed, {rep.seconds:.2f} s")
-    if rep.differences or (rep.skipped and not args.allow_partial):
+    book = xlsx.read_book(args.book)
+    failed = _report_errors(error_cells(book), getattr(args, "allow_errors", False))
+    from fuelsys.sheet.book import inputs_digest
+
+    print(f"inputs digest {inputs_digest(book)}")
+    if rep.differences or (rep.skipped and not args.allow_partial) or failed:
         return 1
     return 0
