@@ -10,6 +10,7 @@ defined here.
 from __future__ import annotations
 
 import argparse
+import os
 import importlib
 import sys
 
@@ -207,11 +208,24 @@ def _cmd_diff(args) -> int:
     if not diffs:
         print("no differences in inputs, formulas or stored results")
         return 0
-    counts = {}
-    for d in diffs:
-        counts[d.kind] = counts.get(d.kind, 0) + 1
+    kinds = {k: [d for d in diffs if d.kind == k] for k in ("sheet", "input", "formula", "result")}
+    for d in kinds["sheet"] + kinds["input"] + kinds["formula"]:
         print(d.line())
-    print("; ".join(f"{n} {k}{'s' if n != 1 else ''} differ" for k, n in counts.items()))
+    results = kinds["result"]
+    shown = results if args.all else [d for d in results if d.visible]
+    hidden = len(results) - len(shown)
+    if results:
+        cause = "that follow from them" if (kinds["input"] or kinds["formula"] or kinds["sheet"]) else \
+            "(no input or formula differs: one of the books was computed elsewhere, or is stale)"
+        detail = (f"; {hidden} of them change only below the digits the book shows (--all lists them)"
+                  if hidden else "")
+        print(f"\n{len(results)} result{'s' if len(results) != 1 else ''} {cause}{detail}:"
+              if shown else f"\n{len(results)} result{'s' if len(results) != 1 else ''} {cause}{detail}")
+        for d in shown:
+            print(d.line(exact=args.all))
+    parts = [book.counted(len(kinds[k]), k) for k in ("sheet", "input", "formula") if kinds[k]]
+    parts.append(book.counted(len(results), "result") + (f" ({hidden} too small to show)" if hidden else ""))
+    print("\n" + "; ".join(parts))
     return 1
 
 
@@ -464,11 +478,15 @@ def build_parser() -> argparse.ArgumentParser:
     p = sub.add_parser(
         "diff", help="list inputs and results that differ between two versions of a book",
         description="Compare two versions of a book, cell by cell, and name each difference by sheet, "
-                    "row label and column heading: the inputs and formulas that were changed, and the "
-                    "results that follow from them. Exit status 0 when nothing differs, 1 when something does, 2 when a book is refused.")
+                    "row label and column heading: first the inputs and formulas that were changed, then "
+                    "the results that follow from them. A result whose change does not show at the "
+                    "number of digits the book displays (its number format; 6 significant digits for "
+                    "General) is counted, not listed, unless --all. Exit status 0 when nothing differs, 1 when something does, 2 when a book is refused.")
     p.add_argument("old", help="the original book")
     p.add_argument("new", help="the edited copy")
     p.add_argument("--rel-tol", type=float, default=1e-9, help="relative tolerance for numbers (default 1e-9)")
+    p.add_argument("--all", action="store_true",
+                   help="list every result that differs, also changes too small to show, with enough digits")
     p.set_defaults(func=_cmd_diff)
     p = sub.add_parser(
         "excel-setup", help="print the steps to use the FS_ functions live in Excel (xlwings)",
