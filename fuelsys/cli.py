@@ -229,6 +229,35 @@ def _cmd_diff(args) -> int:
     return 1
 
 
+def _cmd_share(args) -> int:
+    from fuelsys.sheet import share
+    from fuelsys.sheet.commands import _progress_for, _report_errors
+    from fuelsys.sheet.xlsx import WorkbookRefused, WriteError
+
+    progress = _progress_for(args, "checking")
+    try:
+        rep = share.share_book(args.book, args.output, force=args.force, progress=progress)
+    except share.ShareRefused as exc:
+        print(f"fuelsys share: {exc}", file=sys.stderr)
+        return 1 if exc.stale else 2
+    except WorkbookRefused as exc:
+        print(f"fuelsys share: refused: {exc}", file=sys.stderr)
+        return 2
+    except (WriteError, OSError) as exc:
+        print(f"fuelsys share: nothing written: {exc}", file=sys.stderr)
+        return 2
+    finally:
+        if progress is not None:
+            progress.close()
+    print(f"wrote {rep.output}: {rep.cells} cells that need fuelsys now hold their values "
+          f"({len(rep.replaced)} formulas, listed on its first sheet '{share.ABOUT_SHEET}'); "
+          f"{rep.kept} formulas of the spreadsheet's own kept; inputs digest {rep.digest}; {rep.seconds:.1f} s")
+    print(f"A reader checks it with 'fuelsys check {os.path.basename(args.book)}' on the original "
+          "(0 differ, the same inputs digest).")
+    _report_errors(rep.errors, allow=True)
+    return 0
+
+
 def _cmd_excel_setup(args) -> int:
     from fuelsys.sheet import book
 
@@ -488,6 +517,20 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--all", action="store_true",
                    help="list every result that differs, also changes too small to show, with enough digits")
     p.set_defaults(func=_cmd_diff)
+    p = sub.add_parser(
+        "share", help="write a copy of a computed book that opens complete without fuelsys",
+        description="Write a copy of BOOK for people without fuelsys: every cell that needs an FS_ function "
+                    "holds the value computed in the book, cells with only the spreadsheet's own functions "
+                    "keep their formulas, and charts, formats, comments and validation stay as they are. A "
+                    "first sheet, 'About this copy', gives the fuelsys version, the date, a digest of the "
+                    "book's inputs, how to check the copy, and every formula the values replace. A book "
+                    "whose stored values are stale is refused (exit 1): run 'fuelsys recalc' first. The "
+                    "book itself is never changed.")
+    p.add_argument("book", help="the computed workbook (.xlsx or .xlsm)")
+    p.add_argument("-o", "--output", help="the copy to write (default: BOOK-shared.xlsx beside the book)")
+    p.add_argument("--force", action="store_true", help="replace an existing copy")
+    p.add_argument("--progress", action="store_true", help="show a progress bar even when not on a terminal")
+    p.set_defaults(func=_cmd_share)
     p = sub.add_parser(
         "excel-setup", help="print the steps to use the FS_ functions live in Excel (xlwings)",
         description="Print the steps that make the FS_ functions work live in Excel on Windows through the "
