@@ -258,6 +258,35 @@ def _cmd_share(args) -> int:
     return 0
 
 
+def _cmd_report(args) -> int:
+    from fuelsys.sheet import report
+    from fuelsys.sheet.commands import _progress_for
+    from fuelsys.sheet.xlsx import WorkbookRefused
+
+    progress = _progress_for(args, "checking")
+    try:
+        rep = report.make_report(args.book, args.output, progress=progress)
+    except WorkbookRefused as exc:
+        print(f"fuelsys report: refused: {exc}", file=sys.stderr)
+        return 2
+    except ImportError as exc:
+        print(f"fuelsys report: matplotlib is needed to draw the charts ({exc}); pip install matplotlib",
+              file=sys.stderr)
+        return 2
+    except OSError as exc:
+        print(f"fuelsys report: nothing written: {exc}", file=sys.stderr)
+        return 2
+    finally:
+        if progress is not None:
+            progress.close()
+    print(f"wrote {rep.output}: {rep.pages} pages, {len(rep.summary)} summary rows, {rep.charts} charts")
+    if rep.stale:
+        print(f"WARNING: the book's stored values are stale ({rep.stale} cells differ from a fresh computation); "
+              "its first page says so. Run 'fuelsys recalc' and make the report again.")
+        return 1
+    return 0
+
+
 def _cmd_excel_setup(args) -> int:
     from fuelsys.sheet import book
 
@@ -531,6 +560,16 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--force", action="store_true", help="replace an existing copy")
     p.add_argument("--progress", action="store_true", help="show a progress bar even when not on a terminal")
     p.set_defaults(func=_cmd_share)
+    p = sub.add_parser(
+        "report", help="write a printable PDF report of a computed book (charts drawn with matplotlib)",
+        description="Write a PDF a reviewer reads without a spreadsheet: the job, the engine and its envelope, "
+                    "the Summary sheet's figures, every verdict and check with its reasons, the charts drawn "
+                    "from the book's numbers, the inputs, the safety cautions and the provenance. A book whose "
+                    "stored values are stale gets a warning on the first page (and exit status 1).")
+    p.add_argument("book", help="the computed workbook (.xlsx or .xlsm)")
+    p.add_argument("-o", "--output", help="the PDF to write (default: BOOK-report.pdf beside the book)")
+    p.add_argument("--progress", action="store_true", help="show a progress bar even when not on a terminal")
+    p.set_defaults(func=_cmd_report)
     p = sub.add_parser(
         "excel-setup", help="print the steps to use the FS_ functions live in Excel (xlwings)",
         description="Print the steps that make the FS_ functions work live in Excel on Windows through the "
