@@ -14,15 +14,7 @@ import os
 import importlib
 import sys
 
-CAUTIONS = """\
-SAFETY: fuel under pressure, flame and fast-rotating parts can hurt people.
-- Run engines only where local rules and your club's safety code allow it;
-  keep a suitable extinguisher at hand, and store and handle fuel and gas away
-  from ignition sources.
-- Pressure-test the fuel system before running; wear eye and hearing
-  protection; keep people out of the plane of the rotor.
-- These figures are estimates from published correlations. Confirm them by
-  bench tests, and defer to local codes, club safety rules and licensed practice."""
+from fuelsys.safety import CAUTIONS  # printed by demo and the summary
 
 #: modules that add subcommands (each defines ``add_commands(subparsers)``)
 COMMAND_MODULES = (
@@ -231,10 +223,10 @@ def _cmd_diff(args) -> int:
 
 def _cmd_share(args) -> int:
     from fuelsys.sheet import share
-    from fuelsys.sheet.commands import _progress_for, _report_errors
+    from fuelsys.sheet.commands import progress_for, report_errors
     from fuelsys.sheet.xlsx import WorkbookRefused, WriteError
 
-    progress = _progress_for(args, "checking")
+    progress = progress_for(args, "checking")
     try:
         rep = share.share_book(args.book, args.output, force=args.force, progress=progress)
     except share.ShareRefused as exc:
@@ -254,16 +246,16 @@ def _cmd_share(args) -> int:
           f"{rep.kept} formulas of the spreadsheet's own kept; inputs digest {rep.digest}; {rep.seconds:.1f} s")
     print(f"A reader checks it with 'fuelsys check {os.path.basename(args.book)}' on the original "
           "(0 differ, the same inputs digest).")
-    _report_errors(rep.errors, allow=True)
+    report_errors(rep.errors, allow=True)
     return 0
 
 
 def _cmd_report(args) -> int:
     from fuelsys.sheet import report
-    from fuelsys.sheet.commands import _progress_for
+    from fuelsys.sheet.commands import progress_for
     from fuelsys.sheet.xlsx import WorkbookRefused
 
-    progress = _progress_for(args, "checking")
+    progress = progress_for(args, "checking")
     try:
         rep = report.make_report(args.book, args.output, progress=progress)
     except WorkbookRefused as exc:
@@ -456,7 +448,7 @@ def describe_function(spec) -> str:
     """``fuelsys functions NAME``: arguments, method, validity and an example with its result."""
     import textwrap
 
-    from fuelsys.sheet.commands import format_table, _text
+    from fuelsys.sheet.commands import format_table, cell_text
 
     lines = [spec.help_text(), ""]
     lines += textwrap.wrap(f"method: {spec.source}", 96, subsequent_indent="  ")
@@ -480,7 +472,7 @@ def describe_function(spec) -> str:
             rows = [[short(v) for v in row] for row in value.full_rows()]
             lines.append(textwrap.indent(format_table(rows), "    "))
         else:
-            lines.append(f"    {_text(short(value))}")
+            lines.append(f"    {cell_text(short(value))}")
         for n in notes:
             lines += textwrap.wrap(f"flagged: {n}", 96, initial_indent="    ", subsequent_indent="      ")
     return "\n".join(lines)

@@ -48,7 +48,7 @@ def test_labels_name_label_rows_tables_and_array_tables():
                 ((10, 2), Formula("MAX(C8:C9)")),
                 ((13, 1), Formula("T()", "array", (13, 1, 16, 2))),
                 ((19, 1), Formula("L()", "array", (19, 1, 20, 2)))]
-    lab = sheet_book._Labeller(_sheet(cells, formulas))
+    lab = sheet_book.Labeller(_sheet(cells, formulas))
     assert lab.label(2, 2) == "needle length"
     assert lab.label(4, 2) == "needles"  # not headed by the text input "normal" above it
     assert lab.label(3, 2) == "wall class"

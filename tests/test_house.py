@@ -26,7 +26,7 @@ PKG = ROOT / "fuelsys"
 #: floors from the ground up: (name, module prefixes)
 FLOORS = (
     ("ground", ("fuelsys", "fuelsys.errors", "fuelsys.arrays", "fuelsys.constants", "fuelsys.roots",
-                "fuelsys.thermo")),
+                "fuelsys.thermo", "fuelsys.safety")),
     ("fuels", ("fuelsys.fuels",)),
     ("flow and heat", ("fuelsys.flow", "fuelsys.heat", "fuelsys.equilibrium")),
     ("engine parts", ("fuelsys.vaporiser", "fuelsys.combustor", "fuelsys.engine", "fuelsys.pump",

@@ -155,7 +155,7 @@ def _short(v) -> str:
     return str(v).strip()
 
 
-class _Labeller:
+class Labeller:
     """Names the cells of one sheet by section title, row label and column heading.
 
     A *label row* (a text in column A, its value in B, perhaps a unit in C and
@@ -261,7 +261,7 @@ _BUILTIN_FORMATS = {0: "General", 1: "0", 2: "0.00", 3: "#,##0", 4: "#,##0.00", 
 GENERAL_DIGITS = 6
 
 
-def _number_formats(book) -> dict:
+def number_formats(book) -> dict:
     """Sheet name -> {(row, col): number format code} for the cells with a style."""
     import re
 
@@ -422,7 +422,7 @@ def diff_books(a_path, b_path, rel_tol: float = 1e-9) -> list[Difference]:
     from fuelsys.sheet.xlsx import read_book
 
     a, b = read_book(a_path), read_book(b_path)
-    fmt_a, fmt_b = _number_formats(a), _number_formats(b)
+    fmt_a, fmt_b = number_formats(a), number_formats(b)
     out: list[Difference] = []
     names_a = [s.name for s in a.sheets]
     names_b = [s.name for s in b.sheets]
@@ -436,7 +436,7 @@ def diff_books(a_path, b_path, rel_tol: float = 1e-9) -> list[Difference]:
         if sa.name not in names_b:
             continue
         sb = b.sheet(sa.name)
-        la, lb = _Labeller(sa), _Labeller(sb)
+        la, lb = Labeller(sa), Labeller(sb)
         fa_codes, fb_codes = fmt_a.get(sa.name, {}), fmt_b.get(sa.name, {})
         spilled = _array_cells(sa) | _array_cells(sb)
         keys = sorted(set(sa.cells) | set(sb.cells) | set(sa.formulas) | set(sb.formulas))

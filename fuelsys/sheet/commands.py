@@ -121,7 +121,7 @@ def error_cells(book) -> list[tuple[str, str]]:
     return out
 
 
-def _report_errors(cells, allow: bool, out=None) -> bool:
+def report_errors(cells, allow: bool, out=None) -> bool:
     """Print the count and the first few error cells; True when they make the command fail."""
     out = out or sys.stdout
     if not cells:
@@ -147,7 +147,7 @@ def _is_failure(v) -> bool:
     return isinstance(v, XlError) or is_error(v)
 
 
-def _text(v) -> str:
+def cell_text(v) -> str:
     from fuelsys.sheet.builtins import XlError, number_text
 
     if isinstance(v, bool):
@@ -169,7 +169,7 @@ def _json_value(v):
 
 def format_table(rows) -> str:
     """Rows of values as aligned text: numbers right-aligned, texts left-aligned."""
-    cells = [[_text(v) for v in row] for row in rows]
+    cells = [[cell_text(v) for v in row] for row in rows]
     ncol = max(len(r) for r in cells)
     widths = [max(len(r[j]) for r in cells if j < len(r)) for j in range(ncol)]
     lines = []
@@ -212,7 +212,7 @@ class _Progress:
             self.stream.flush()
 
 
-def _progress_for(args, label: str):
+def progress_for(args, label: str):
     """A progress bar when asked (--progress), or on a terminal for a large book."""
     if getattr(args, "progress", False):
         return _Progress(label)
@@ -313,7 +313,7 @@ def cmd_eval(args) -> int:
         if args.json:
             print(json.dumps({"error": value.code} if hasattr(value, "code") else {"value": value}))
         else:
-            print(_text(value))
+            print(cell_text(value))
     return 1 if failed else 0
 
 
@@ -334,7 +334,7 @@ def cmd_recalc(args) -> int:
 
     if args.engine == "libreoffice":
         return _recalc_libreoffice(args)
-    progress = _progress_for(args, "computing")
+    progress = progress_for(args, "computing")
     try:
         rep = ev.recalc_workbook(args.book, output=args.output, allow_partial=args.allow_partial,
                                  progress=progress, follow_symlinks=getattr(args, "follow_symlinks", False),
@@ -363,7 +363,7 @@ def cmd_recalc(args) -> int:
     except xlsx.WorkbookRefused as exc:  # it was just written by us; a failure here is a real problem
         _err(f"fuelsys recalc: the written book does not read back: {exc}")
         return 2
-    return 1 if _report_errors(cells, getattr(args, "allow_errors", False)) else 0
+    return 1 if report_errors(cells, getattr(args, "allow_errors", False)) else 0
 
 
 def _recalc_libreoffice(args) -> int:
@@ -425,7 +425,7 @@ def cmd_check(args) -> int:
     from fuelsys.sheet import evaluate as ev
     from fuelsys.sheet import xlsx
 
-    progress = _progress_for(args, "checking")
+    progress = progress_for(args, "checking")
     try:
         rep = ev.check_workbook(args.book, rel_tol=args.tolerance, progress=progress)
     except xlsx.WorkbookRefused as exc:
@@ -442,7 +442,7 @@ def cmd_check(args) -> int:
     print(f"{os.path.basename(args.book)}: {rep.checked} cells checked, {len(rep.differences)} differ, "
           f"{len(rep.skipped)} could not be computed, {rep.seconds:.2f} s")
     book = xlsx.read_book(args.book)
-    failed = _report_errors(error_cells(book), getattr(args, "allow_errors", False))
+    failed = report_errors(error_cells(book), getattr(args, "allow_errors", False))
     from fuelsys.sheet.book import inputs_digest
 
     print(f"inputs digest {inputs_digest(book)}")

@@ -228,13 +228,13 @@ def summary_rows(book, formats) -> list[tuple[str, list]]:
 
 def verdict_cells(book) -> list[tuple[str, str, str]]:
     """(sheet, label, text) of every verdict, check and notes cell outside the Summary."""
-    from fuelsys.sheet.book import _Labeller
+    from fuelsys.sheet.book import Labeller
 
     out = []
     for s in book.sheets:
         if s.kind != "worksheet" or s.name.lower() in ("summary", "functions", "start here"):
             continue
-        lab = _Labeller(s)
+        lab = Labeller(s)
         for (r, c), v in sorted(s.cells.items()):
             if not isinstance(v, str) or not v.strip():
                 continue
@@ -248,13 +248,13 @@ def verdict_cells(book) -> list[tuple[str, str, str]]:
 
 def input_rows(book, formats) -> list[tuple[str, str, str]]:
     """(sheet, label, value with its unit) of every input (constant) cell of the working sheets."""
-    from fuelsys.sheet.book import _Labeller
+    from fuelsys.sheet.book import Labeller
 
     out = []
     for s in book.sheets:
         if s.kind != "worksheet" or s.name.lower() in SKIP_INPUT_SHEETS:
             continue
-        lab = _Labeller(s)
+        lab = Labeller(s)
         fm = formats.get(s.name, {})
         for (r, c), v in sorted(s.cells.items()):
             if (r, c) in s.formulas or (r, c) in lab.arrays or v in (None, ""):
@@ -421,13 +421,13 @@ def make_report(path, output=None, progress=None, now=None) -> ReportResult:
 
     from fuelsys import __version__
     from fuelsys.sheet import xlsx
-    from fuelsys.sheet.book import _number_formats, inputs_digest
+    from fuelsys.sheet.book import number_formats, inputs_digest
     from fuelsys.sheet.share import stale_cells
 
     path = os.fspath(path)
     output = os.fspath(output) if output else os.path.splitext(path)[0] + "-report.pdf"
     book = xlsx.read_book(path)
-    formats = _number_formats(book)
+    formats = number_formats(book)
     stale, skipped = stale_cells(book, progress)
     summary = summary_rows(book, formats)
     inputs = input_rows(book, formats)
@@ -490,7 +490,7 @@ def make_report(path, output=None, progress=None, now=None) -> ReportResult:
                         last = sheet
                     doc.pair(label, value, indent=0.2)
                 doc.heading("Safety")
-                from fuelsys.cli import CAUTIONS
+                from fuelsys.safety import CAUTIONS
 
                 for line in CAUTIONS.splitlines():
                     doc.text(line)

@@ -329,7 +329,7 @@ def about_sheet_xml(rows: list[list]) -> bytes:
 
 
 def about_rows(source_name: str, version: str, when: str, digest: str, replaced: list, kept: int) -> list:
-    from fuelsys.cli import CAUTIONS
+    from fuelsys.safety import CAUTIONS
 
     n_cells = sum(_count_cells(x.cells) for x in replaced)
     rows = [
@@ -419,7 +419,7 @@ def share_book(path, output=None, force: bool = False, progress=None, now=None) 
 
     from fuelsys import __version__
     from fuelsys.sheet import xlsx
-    from fuelsys.sheet.book import _Labeller, inputs_digest
+    from fuelsys.sheet.book import Labeller, inputs_digest
     from fuelsys.sheet.commands import error_cells
     from fuelsys.sheet.evaluate import cell_name
 
@@ -448,7 +448,7 @@ def share_book(path, output=None, force: bool = False, progress=None, now=None) 
     replace: dict[str, bytes] = {}
     for si, cells in sorted(targets.items()):
         sheet = book.sheets[si]
-        lab = _Labeller(sheet)
+        lab = Labeller(sheet)
         values = {key: sheet.cells.get(key) for key in cells}
         replace[sheet.part] = replace_cells(book.member(sheet.part), values, sheet.part)
         report.cells += len(cells)
