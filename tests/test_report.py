@@ -13,7 +13,7 @@ import pytest
 
 from fuelsys.cli import main
 from fuelsys.sheet import xlsx
-from fuelsys.sheet.book import _number_formats, display_text
+from fuelsys.sheet.book import number_formats, display_text
 from fuelsys.sheet.report import read_charts
 from fuelsys.sheet.starter import EXAMPLE_PATH
 
@@ -65,7 +65,7 @@ def test_report_prints_the_summary_numbers_and_a_picture_per_chart(demo_report):
     text = " ".join(_text(pdf).split())
     book = xlsx.read_book(src)
     summary = book.sheet("Summary")
-    fmts = _number_formats(book).get("Summary", {})
+    fmts = number_formats(book).get("Summary", {})
     numbers = 0
     for r in range(1, summary.max_row + 1):
         label, value = summary.cells.get((r, 1)), summary.cells.get((r, 2))
