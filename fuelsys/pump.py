@@ -66,6 +66,9 @@ MIN_POINTS = 4
 MAX_CONDITION = 1.0e7
 #: relative standard error of a fitted coefficient above which the fit is refused
 MAX_RELATIVE_ERROR = 1.0
+#: relative standard error of the resistance or the slip above which the two are not taken as parted
+#: (the fit then keeps their combined pressure coefficient and says so); a judgement, no source
+SPLIT_MAX_RELATIVE_ERROR = 0.3
 
 
 
@@ -362,6 +365,8 @@ class PumpFit:
     n_points: int = 0
     residuals: np.ndarray = field(default=None, repr=False)
     mu_test: float = float("nan")
+    #: what the fit could not separate, in words ("" when every coefficient is known apart)
+    note: str = ""
 
 
 def _test_arrays(flow, dp, volts, mu):
@@ -426,8 +431,6 @@ def fit_pump(flow, dp, volts, mu, winding_ohm=None, kv=None):
     >>> round(fit.pump.winding_ohm, 3), round(fit.pump.slip * 1e15, 3)
     (1.2, 2.0)
     """
-    from scipy.optimize import least_squares
-
     q, p, v, m = _test_arrays(flow, dp, volts, mu)
     if not np.any(q > 0):
         raise FuelsysInputError("every test flow is zero: the fit needs the flows measured at each voltage")
@@ -439,10 +442,43 @@ def fit_pump(flow, dp, volts, mu, winding_ohm=None, kv=None):
         raise FuelsysInputError(
             f"all test points are at one pressure ({p[0] / 1e5:g} bar): test against two or more pressures")
     r_known = winding_ohm is not None
-    if r_known:
-        r_fix = float(_arr(winding_ohm, "winding resistance", "Ω", nonneg=True))
+    r_fix = float(_arr(winding_ohm, "winding resistance", "Ω", nonneg=True)) if r_known else float("nan")
+    mk = float("nan")
+    if kv is not None:
+        kv = float(_arr(kv, "motor speed constant", "rpm/V", positive=True))
+        mk = 60.0 / (2.0 * np.pi * kv)
     mu_varies = np.ptp(m) > 0.02 * np.min(m)
-    lumped = not (r_known or mu_varies)
+    if r_known or not mu_varies:
+        fit = _solve_fit(q, p, v, m, r_fix, lumped=not r_known, motor_k=mk)
+        if not r_known:
+            fit = replace(fit, note=COMBINED_NOTE_ONE_TEMPERATURE)
+        return fit
+    try:
+        return _solve_fit(q, p, v, m, r_fix, lumped=False, motor_k=mk)
+    except _Inseparable as exc:
+        # the temperatures were too close to part motor resistance from pump slip: give what the data fix
+        fit = _solve_fit(q, p, v, m, r_fix, lumped=True, motor_k=mk)
+        return replace(fit, note=f"{COMBINED_NOTE_CLOSE_TEMPERATURES} ({exc})")
+
+
+class _Inseparable(FuelsysInputError):
+    """The points fix the combined pressure coefficient but not the resistance and the slip apart."""
+
+
+#: notes of a fit that gives the motor resistance and the pump slip as one combined coefficient
+COMBINED_NOTE_ONE_TEMPERATURE = (
+    "one fuel temperature and no winding resistance: motor resistance and pump slip are combined in "
+    "dp_v_per_bar, which holds only at the test viscosity; give winding_ohm for other temperatures")
+COMBINED_NOTE_CLOSE_TEMPERATURES = (
+    "the test temperatures are too close to part motor resistance from pump slip: they are combined in "
+    "dp_v_per_bar at the mean test viscosity; give winding_ohm for other temperatures")
+
+
+def _solve_fit(q, p, v, m, r_fix, lumped, motor_k):
+    """Least-squares solve of :func:`fit_pump` for one model form (lumped, R known, or free) [-]."""
+    from scipy.optimize import least_squares
+
+    r_known = np.isfinite(r_fix)
 
     # linear start: V = b0 + b1 Q + b2 dp + b3 dp/mu
     if lumped:
@@ -492,9 +528,15 @@ def fit_pump(flow, dp, volts, mu, winding_ohm=None, kv=None):
         def model(x):
             return x[1] * x[2] + q / x[0] + x[1] * x[0] * p + x[3] * p / (x[0] * m)
 
-    # scale to order one; keep start strictly inside the bounds
+    # scale to order one; keep start strictly inside the bounds.  A coefficient that starts at (or near)
+    # zero gets the scale of a term worth a few per cent of the voltages, never its own near-zero start
+    # (a start of 1e-17 V would shrink its Jacobian column to nothing: a spurious infinite condition number)
+    v_typ = float(np.mean(np.abs(v)))
     scale = np.where(x0 > 0, x0, 1.0)
     scale[0] = phi0
+    if lumped:
+        scale[1] = max(x0[1], 0.05 * v_typ)
+        scale[2] = max(x0[2], 0.05 * v_typ / max(np.mean(np.abs(p)), 1.0))
     if not lumped:
         k_slip = names.index("slip")
         # order of a slip worth 10 % of the flow at the mean pressure
@@ -524,6 +566,8 @@ def fit_pump(flow, dp, volts, mu, winding_ohm=None, kv=None):
         cond = float(sv[0] / sv[-1]) if sv[-1] > 0 else np.inf
     n, k = q.size, len(x)
     dof = n - k
+    if (cond > MAX_CONDITION or not np.isfinite(cond)) and not lumped and not r_known:
+        raise _Inseparable(f"condition number {cond:.3g}")
     if cond > MAX_CONDITION or not np.isfinite(cond):
         raise FuelsysInputError(
             f"the test points cannot fix the pump coefficients (condition number {cond:.3g}): spread them over "
@@ -536,16 +580,16 @@ def fit_pump(flow, dp, volts, mu, winding_ohm=None, kv=None):
         se = np.full(k, np.inf)
     std = {nm: float(e) for nm, e in zip(names, se)}
     for nm, val, e in zip(names, x, se):
-        if dof > 0 and val > 0 and e / val > MAX_RELATIVE_ERROR and nm in ("phi", "winding_ohm"):
+        if (dof > 0 and val > 0 and e / val > SPLIT_MAX_RELATIVE_ERROR and nm in ("winding_ohm", "slip")
+                and not lumped and not r_known):
+            raise _Inseparable(f"standard error of {nm} {100 * e / val:.0f} % of its value")
+        if dof > 0 and val > 0 and e / val > MAX_RELATIVE_ERROR and nm == "phi":
             raise FuelsysInputError(
                 f"the test points leave the pump coefficient {nm} uncertain (standard error {100 * e / val:.0f} % "
                 "of its value): add points at other voltages and pressures")
     ss_tot = float(np.sum((v - v.mean()) ** 2))
     r2 = 1.0 - float(res @ res) / ss_tot if ss_tot > 0 else 1.0
-    mk = float("nan")
-    if kv is not None:
-        kv = float(_arr(kv, "motor speed constant", "rpm/V", positive=True))
-        mk = 60.0 / (2.0 * np.pi * kv)
+    mk = motor_k
     x = [float(e) for e in x]
     if lumped:
         pump = GearPump(phi=x[0], winding_ohm=float("nan"), friction_current=float("nan"),
@@ -738,15 +782,17 @@ def fit_row(fit: PumpFit, temp_c=None):
     p = fit.pump
     na = "n/a"
 
-    def num(x, f=1.0):
-        return float(x * f) if np.isfinite(x) else na
+    def num(x, f=1.0, missing=na):
+        return float(x * f) if np.isfinite(x) else missing
 
     labels = ["flow_per_volt_ml_min_v", "winding_ohm", "friction_a", "slip_mm3", "v0_v", "dp_v_per_bar",
               "fit_viscosity_mpas", "motor_k_mnm_a", "displacement_ml_rev", "rms_v", "r2", "condition",
               "points", "tested_min_v", "tested_max_v"]
     mu = fit.mu_test if np.isfinite(fit.mu_test) else p.mu_fit
     dp_volts = p.dp_volts if not p.separable else float(p._dp_coef(mu))
-    values = [p.phi * 6e7, num(p.winding_ohm), num(p.friction_current), num(p.slip, 1e9), p.v0,
+    combined = "combined in dp_v_per_bar"  # resistance and slip not parted: says so in their cells
+    values = [p.phi * 6e7, num(p.winding_ohm, missing=combined), num(p.friction_current, missing=combined),
+              num(p.slip, 1e9, missing=combined), p.v0,
               dp_volts * 1e5, num(mu, 1e3), num(p.motor_k, 1e3),
               num(p.displacement * 2 * np.pi, 1e6), fit.rms_volts, fit.r_squared, fit.condition,
               float(fit.n_points), num(p.v_tested[0]), num(p.v_tested[1])]
@@ -785,7 +831,7 @@ def pump_from_row(cells):
 
     def value_like(x):
         return (isinstance(x, (int, float)) and not isinstance(x, bool)) or (
-            isinstance(x, str) and x.strip().lower() == "n/a")
+            isinstance(x, str) and (x.strip().lower() == "n/a" or x.strip().lower().startswith("combined")))
 
     for grid in (rows, [list(c) for c in zip(*rows)] if rows and all(len(r) == len(rows[0]) for r in rows) else []):
         for i in range(len(grid) - 1):

@@ -251,3 +251,52 @@ def test_volts_outside_the_tested_range_are_flagged():
     with warnings.catch_warnings():
         warnings.simplefilter("error", ValidityWarning)
         assert isinstance(call("FS_PUMP_FLOW", fit, 6, 2, "kerosene", 20), float)  # the cell still computes
+
+
+def test_exact_points_at_one_temperature_fit_with_r_squared_one():
+    """flow = 80·V − 25·p (g/min, V, bar), noise-free over 4 voltages and 2 pressures: a plane, fitted exactly.
+
+    Synthetic points made here from the stated plane (our own numbers): V = flow/80 + (25/80)·p, so the fit
+    must give 80 g/min per volt, 0.3125 V per bar and no intercept.
+    """
+    from fuelsys.fuels import get_fuel
+    from fuelsys.sheet import call
+
+    volts = [3.0, 5.0, 7.0, 9.0] * 2
+    bars = [1.0] * 4 + [3.0] * 4
+    flows = [80.0 * v - 25.0 * b for v, b in zip(volts, bars)]
+    fit = call("FS_PUMP_FIT", _col(flows), _col(bars), _col(volts), "kerosene", 20.0)
+    assert isinstance(fit, list), fit
+    got = dict(zip(*fit))
+    rho = float(get_fuel("kerosene").density(293.15))
+    assert got["r2"] == pytest.approx(1.0, abs=1e-12)
+    assert got["flow_per_volt_ml_min_v"] == pytest.approx(80.0 / rho * 1e3, rel=1e-8)
+    assert got["dp_v_per_bar"] == pytest.approx(25.0 / 80.0, rel=1e-8)
+    assert abs(got["v0_v"]) < 1e-8
+    # the resistance and the slip are not parted by one temperature: the cells say so instead of an error
+    assert got["winding_ohm"].startswith("combined") and got["slip_mm3"].startswith("combined")
+    # the combined fit predicts back its own points at the test temperature
+    assert call("FS_PUMP_VOLTS", fit, flows[5], bars[5], "kerosene", 20.0) == pytest.approx(volts[5], rel=1e-9)
+
+
+def test_exact_points_with_measured_resistance_recover_every_coefficient():
+    """One temperature plus R measured across the terminals parts slip from resistance (module docstring)."""
+    q, dp, v, mu = _test_points(1.3e-3)
+    fit = P.fit_pump(q, dp, v, mu, winding_ohm=TRUE.winding_ohm)
+    assert fit.r_squared == pytest.approx(1.0, abs=1e-12) and not fit.note
+    for name in ("phi", "friction_current", "slip"):
+        assert getattr(fit.pump, name) == pytest.approx(getattr(TRUE, name), rel=1e-6), name
+    # and it predicts at another viscosity (a colder day) as the true pump does
+    assert fit.pump.volts(4e-6, 3e5, 2.5e-3) == pytest.approx(TRUE.volts(4e-6, 3e5, 2.5e-3), rel=1e-6)
+
+
+def test_temperatures_too_close_give_the_combined_coefficient_and_say_so():
+    """Two temperatures 3 % apart in viscosity, with 20 mV reading noise, cannot part R from the slip."""
+    mu = np.repeat([1.30e-3, 1.34e-3, 1.30e-3], 4)
+    q, dp, v, mu = _test_points(mu, noise=0.02)
+    fit = P.fit_pump(q, dp, v, mu)
+    assert not fit.pump.separable and "too close" in fit.note
+    assert fit.r_squared > 0.999
+    row = dict(zip(*P.fit_row(fit)))
+    assert row["winding_ohm"].startswith("combined")
+    assert P.pump_from_row(P.fit_row(fit)).dp_volts == pytest.approx(fit.pump.dp_volts, rel=1e-12)
