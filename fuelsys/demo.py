@@ -16,12 +16,11 @@ CLUB_NAME = "Kettlebeck Model Engineering Club (fictional)"
 ENGINE = {
     "rpm_max": 118000.0,          # full speed [rpm]
     "pr_max": 2.6,                # compressor pressure ratio at full speed [-]
-    "ambient_bar_abs": 1.01325,   # ambient pressure [bar abs]
-    "ambient_c": 15.0,            # ambient temperature [°C]
+    "ambient_bar_abs": 1.01325,   # ambient pressure where the figures below were taken [bar abs]
+    "ambient_c": 15.0,            # ambient temperature where the figures below were taken [°C]
     "compressor_eff": 0.72,       # compressor isentropic efficiency [-]
     "combustion_eff": 0.95,       # combustion efficiency [-]
-    "liner_dp_pct": 4.0,          # liner pressure drop, per cent of case pressure [%]
-    # operating points: speed [rpm], air flow [g/s], turbine inlet [°C], thrust [N]
+    # operating points at that ambient: speed [rpm], air flow [g/s], turbine inlet [°C], thrust [N]
     "points": (
         (38000.0, 52.0, 640.0, 4.0),
         (60000.0, 85.0, 620.0, 14.0),
@@ -31,12 +30,30 @@ ENGINE = {
     ),
 }
 
+#: the operating envelope, invented: a cold and a hot flying day at the club's field
+ENVELOPE = {
+    "cold": {
+        "ambient_c": -5.0,          # air temperature [°C]
+        "elevation_m": 150.0,       # field elevation [m]
+        "ambient_bar_abs": None,    # measured ambient pressure [bar abs]; None: the ISA pressure at the elevation
+        "pump_fuel_c": -5.0,        # fuel at the pump (the tank's temperature) [°C]
+        "ring_fuel_c": 5.0,         # fuel at the ring and needles (warmed by the case) [°C]
+        "canister_c": -5.0,         # gas canister at the start [°C]
+    },
+    "hot": {
+        "ambient_c": 35.0,
+        "elevation_m": 150.0,
+        "ambient_bar_abs": None,
+        "pump_fuel_c": 40.0,        # a tank in the sun
+        "ring_fuel_c": 55.0,
+        "canister_c": 35.0,
+    },
+}
+
 #: fuel, invented choices
 FUEL = {
     "name": "kerosene",
     "oil_pct": 5.0,               # turbine oil in the fuel [% vol]
-    "cold_c": -5.0,               # fuel temperature on a cold day [°C]
-    "hot_c": 35.0,                # fuel temperature on a hot day [°C]
 }
 
 #: needles and manifold, invented
@@ -47,7 +64,7 @@ NEEDLES = {
     "length_mm": 30.0,
     "ring_bore_mm": 3.0,          # ring tube inside diameter [mm]
     "ring_dia_mm": 80.0,          # ring centre-line diameter [mm]
-    "bore_tol_mm": 0.02,          # bore tolerance (half band) [mm]
+    "bore_tol_mm": 0.02,          # bore tolerance (half band) [mm]: typical bore = ISO 9626 minimum + this
     "length_tol_mm": 0.5,         # length tolerance (half band) [mm]
     # bench test with water: mL collected in 60 s at 1.0 bar, 20 °C; needle 4 runs low
     "bench": ((60.0, 1.0, 20.0), (33.1, 32.8, 33.4, 29.0, 33.0, 32.6)),
@@ -71,6 +88,8 @@ PUMP = {
     "g_load": 3.0,                # manoeuvre load factor [-]
     "margin_pct": 15.0,           # margin on the pressure needed [%]
     "battery_v": 7.4,             # battery voltage under load [V]
+    "winding_ohm": 0.8,           # motor winding resistance measured across its terminals [Ω]
+    "kv_rpm_per_v": None,         # motor speed constant [rpm/V]; None: not known
     # bench test points: flow [g/min], outlet pressure [bar gauge], volts [V], fuel temperature [°C]
     "tests": (
         (118.2, 1.0, 3.0, 12.0),

@@ -122,6 +122,39 @@ class SheetWriter:
         self.row += 1
         return ref
 
+    def input_pair(self, label: str, names, values, unit: str, *, low=None, high=None,
+                   comment: str | None = None) -> int:
+        """An input row with two values (cold day in B, hot day in C, unit in D); returns the row."""
+        r = self.row
+        self.ws.cell(r, 1, label)
+        for j, (name, value) in enumerate(zip(names, values), start=2):
+            c = self.ws.cell(r, j, value)
+            c.fill, c.font = INPUT_FILL, INPUT_FONT
+            if low is not None or high is not None:
+                self.validate_range(f"{col(j)}{r}", low, high)
+            if name:
+                self.define(name, f"${col(j)}${r}")
+            if comment and j == 2:
+                c.comment = Comment(comment, "fuelsys")
+        self.ws.cell(r, 4, unit).font = UNIT_FONT
+        self.row += 1
+        return r
+
+    def result_pair(self, label: str, names, formulas, unit: str, number_format: str | None = None) -> int:
+        """A result row with two formulas (cold day in B, hot day in C, unit in D); returns the row."""
+        r = self.row
+        self.ws.cell(r, 1, label)
+        for j, (name, formula) in enumerate(zip(names, formulas), start=2):
+            c = self.ws.cell(r, j, formula)
+            c.font, c.border = RESULT_FONT, RULE
+            if number_format:
+                c.number_format = number_format
+            if name:
+                self.define(name, f"${col(j)}${r}")
+        self.ws.cell(r, 4, unit).font = UNIT_FONT
+        self.row += 1
+        return r
+
     def header_row(self, headers, col: int = 1) -> int:
         r = self.row
         for j, h in enumerate(headers):

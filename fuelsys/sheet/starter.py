@@ -59,13 +59,17 @@ def sheet_start(wb: Workbook, bk) -> None:
     w.heading("How to use it", sub=True)
     for line in (
         "1. Shaded cells are inputs; the unit of each is in the column beside it. Lists offer the allowed choices.",
-        "2. Work through the sheets from left to right: engine, fuel, needles, vaporiser, pump, gas start.",
-        "3. A result that cannot be computed shows a text starting 'FS error:' that says what is wrong.",
-        "4. The formulas need the fuelsys functions: in LibreOffice the fuelsys extension, in Excel the xlwings "
+        "2. Enter the operating envelope first (Envelope sheet): the cold day and the hot day, with the fuel's "
+        "temperature at the pump and at the ring and the gas canister's. Every sheet computes its checks at the "
+        "corners that matter to it, and the Summary names the corner that limits each one.",
+        "3. Then work through the sheets from left to right: engine, fuel, needles, vaporiser, combustor, pump, "
+        "gas start.",
+        "4. A result that cannot be computed shows a text starting 'FS error:' that says what is wrong.",
+        "5. The formulas need the fuelsys functions: in LibreOffice the fuelsys extension, in Excel the xlwings "
         "add-in; 'fuelsys recalc BOOK.xlsx' computes them anywhere and stores the numbers in the file. Single "
         "results then show in any spreadsheet program; tables (array formulas) need the functions to show.",
-        "5. 'fuelsys check BOOK.xlsx' tells whether the stored numbers still match the inputs.",
-        "6. The Functions sheet lists every fuelsys function with its arguments and units.",
+        "6. 'fuelsys check BOOK.xlsx' tells whether the stored numbers still match the inputs.",
+        "7. The Functions sheet lists every fuelsys function with its arguments and units.",
     ):
         w.note(line)
     w.heading("Safety", sub=True)
@@ -112,19 +116,90 @@ def sheet_functions(wb: Workbook) -> None:
 # ---------------------------------------------------------------------------
 # the sheets of the sizing chain
 
-#: operating-point rows: first row of the Engine sheet's point table, filled in by sheet_engine
+#: rows of every per-needle table (ring manifold, bench test): the needle count may be anything up to this
+MAX_NEEDLES = 16
+#: rows of the pump's bench-test table
+PUMP_TEST_ROWS = 12
+#: the two days of the envelope: key, label, prefix of the defined names
+DAYS = (("cold", "cold day", "Cold"), ("hot", "hot day", "Hot"))
+#: discharge coefficient the Combustor sheet gives a hole whose Cd cell is empty (the catalogue's default)
+_CD_PLAIN = 0.625
+#: specific gas constant of dry air [J/(kg K)] (CIPM-2007 dry air, 28.9647 g/mol; 8.314462618 J/(mol K))
+_R_AIR = 287.05
+
+
 class _Book:
     """Where things landed, so later sheets can refer to earlier ones."""
 
     def __init__(self, scenario):
         self.s = scenario
         self.points = len(scenario.ENGINE["points"])
-        self.op_rows = []          # Engine sheet rows of the operating points
-        self.cells = {}            # named result cells for the summary: key -> "Sheet!$B$n"
+        self.op_rows = []          # Engine sheet rows of the operating points (the figures as entered)
+        self.day_rows = {}         # Engine sheet rows of the operating points on each day of the envelope
+        self.summary = []          # (section, label, formula, unit, corner, number format) rows of the Summary
+        self.verdict_ranges = []
 
 
 def _eng(bk, col_letter, i):
     return f"Engine!${col_letter}${bk.op_rows[i]}"
+
+
+def _day(bk, day, col_letter, i):
+    """A cell of the Engine sheet's table for ``day`` ("cold" or "hot") at operating point ``i``."""
+    return f"Engine!${col_letter}${bk.day_rows[day][i]}"
+
+
+def _point_label(bk, i):
+    return "idle" if i == 0 else "full power" if i == bk.points - 1 else f"point {i + 1}"
+
+
+def _corner_of(sheet, rng_value, rng_point, rng_day, how):
+    """Formula naming the row where ``rng_value`` is largest (how="MAX") or smallest ("MIN"): "day, point"."""
+    m = f"MATCH({how}({sheet}!{rng_value}),{sheet}!{rng_value},0)"
+    return f'=INDEX({sheet}!{rng_day},{m})&", "&INDEX({sheet}!{rng_point},{m})'
+
+
+def _add(bk, section, label, formula, unit="", corner="", fmt=None):
+    bk.summary.append((section, label, formula, unit, corner, fmt))
+
+
+def sheet_envelope(wb, bk):
+    env = bk.s.ENVELOPE
+    ws = wb.create_sheet("Envelope")
+    w = SheetWriter(wb, ws, label_width=44)
+    w.heading("Operating envelope: the cold day and the hot day")
+    w.note("Entered once: every sheet takes its corners from here. The engine's figures (Engine sheet) are "
+           "carried to each day at the same speed and turbine inlet temperature; the needles, vaporiser tubes, "
+           "combustor and pump are computed at every operating point on both days, and the gas start with the "
+           "cold canister. The Summary names the corner that limits each check.")
+    w.header_row(["", "cold day", "hot day", "unit"])
+    c, h = env["cold"], env["hot"]
+    w.input_pair("air temperature", ("ColdAmbC", "HotAmbC"), (c["ambient_c"], h["ambient_c"]), "°C",
+                 low=-40, high=55)
+    r_elev = w.input_pair("field elevation", ("ColdElevM", "HotElevM"), (c["elevation_m"], h["elevation_m"]),
+                          "m", low=-400, high=5000)
+    r_pin = w.input_pair("ambient pressure, measured (leave empty to use the elevation)", (None, None),
+                         (c["ambient_bar_abs"], h["ambient_bar_abs"]), "bar abs", low=0.5, high=1.1)
+    # ISA (ISO 2533) below 11 km: p = 101325 (1 - 2.25577e-5 h)^5.25588
+    w.result_pair("ambient pressure used", ("ColdAmbBar", "HotAmbBar"),
+                  [f"=IF(ISNUMBER({k}{r_pin}),{k}{r_pin},1.01325*(1-0.0000225577*{k}{r_elev})^5.25588)"
+                   for k in "BC"], "bar abs", number_format="0.0000")
+    w.input_pair("fuel at the pump (the tank's temperature)", ("ColdPumpC", "HotPumpC"),
+                 (c["pump_fuel_c"], h["pump_fuel_c"]), "°C", low=-40, high=80)
+    w.input_pair("fuel at the ring and needles (warmed by the case)", ("ColdRingC", "HotRingC"),
+                 (c["ring_fuel_c"], h["ring_fuel_c"]), "°C", low=-40, high=150)
+    w.input_pair("gas canister at the start", ("ColdCanC", "HotCanC"), (c["canister_c"], h["canister_c"]), "°C",
+                 low=-30, high=50)
+    w.heading("Which corner limits which check", sub=True)
+    for line in (
+        "Needles: cold-day full power needs the most pressure (thick fuel, dense air, most fuel); hot-day idle "
+        "has the least pressure drop, so the ring's own unevenness weighs most there.",
+        "Vaporiser tubes: cold-day idle is usually the worst (cold air, little of it); every point is checked "
+        "on both days and the Summary shows the least margin above the dew point.",
+        "Pump: cold-day full power asks the most voltage; idle on a hot day the least.",
+        "Gas start: the cold canister gives the least pressure.",
+    ):
+        w.note(line)
 
 
 def sheet_engine(wb, bk):
@@ -136,15 +211,17 @@ def sheet_engine(wb, bk):
     w.heading("Design point", sub=True)
     w.input("full speed", "RpmMax", e["rpm_max"], "rpm", low=1000, high=500000)
     w.input("compressor pressure ratio at full speed", "PrMax", e["pr_max"], "-", low=1, high=6)
-    w.input("ambient pressure", "AmbientBar", e["ambient_bar_abs"], "bar abs", low=0.5, high=1.1)
-    w.input("ambient temperature", "AmbientC", e["ambient_c"], "°C", low=-40, high=50)
+    w.input("ambient pressure where the figures were taken", "AmbientBar", e["ambient_bar_abs"], "bar abs",
+            low=0.5, high=1.1)
+    w.input("ambient temperature where the figures were taken", "AmbientC", e["ambient_c"], "°C", low=-40,
+            high=50)
     w.input("compressor isentropic efficiency", "CompressorEff", e["compressor_eff"], "-", low=0.4, high=0.9)
     w.input("combustion efficiency", "CombustionEff", e["combustion_eff"], "-", low=0.5, high=1)
-    w.input("liner pressure drop", "LinerDpPct", e["liner_dp_pct"], "% of case abs", low=0.5, high=15)
-    w.heading("From idle to full power", sub=True)
-    w.note("Speed, air flow, turbine inlet temperature and thrust are inputs (measured, or your estimates); "
-           "case pressure follows from the pressure ratio by the Euler-work similarity law, the compressor exit "
-           "temperature by the isentropic relation with gamma 1.4, and the fuel from an energy balance.")
+    w.heading("From idle to full power, as measured or estimated", sub=True)
+    w.note("Speed, air flow, turbine inlet temperature and thrust are inputs (measured, or your estimates) at the "
+           "ambient above; case pressure follows from the pressure ratio by the Euler-work similarity law, the "
+           "compressor exit temperature by the isentropic relation with gamma 1.4, and the fuel from an energy "
+           "balance.")
     heads = ["point", "speed [rpm]", "air flow [g/s]", "turbine inlet [°C]", "thrust [N]",
              "case [bar gauge]", "case [bar abs]", "compressor exit [°C]", "fuel [g/min]",
              "fuel per needle [g/min]", "fuel use [kg/(N·h)]"]
@@ -164,10 +241,45 @@ def sheet_engine(wb, bk):
         w.cell(r, 10, f"=I{r}/NeedleCount", number_format="0.00")
         w.cell(r, 11, f"=IF(E{r}>0,I{r}*60/1000/E{r},\"no thrust given\")", number_format="0.000")
         w.row += 1
+    t_ref = "(AmbientC+273.15)"
+    for day, label, pre in DAYS:
+        w.heading(f"On the {label} (Envelope sheet)", sub=True)
+        if day == "cold":
+            w.note("The same speeds and turbine inlet temperatures on each day. At a given speed the compressor "
+                   "gives the same isentropic work (Euler, constant cp), so the pressure ratio is higher in cold "
+                   "air; the air flow goes with the inlet density at the same volume flow (constant flow "
+                   "coefficient). Saravanamuttoo et al., Gas Turbine Theory 6th ed. §4.2; Dixon & Hall 7th ed. §1.8.")
+        w.header_row(["point", "air flow [g/s]", "case [bar gauge]", "case [bar abs]", "compressor exit [°C]",
+                      "turbine inlet [°C]", "fuel [g/min]", "fuel per needle [g/min]"])
+        rows = []
+        t_day = f"({pre}AmbC+273.15)"
+        for i in range(bk.points):
+            r, ref = w.row, bk.op_rows[i]
+            rows.append(r)
+            w.cell(r, 1, f"=A{ref}")
+            w.cell(r, 2, f"=C{ref}*({pre}AmbBar/AmbientBar)*({t_ref}/{t_day})", number_format="0.0")
+            w.cell(r, 3, f"=D{r}-{pre}AmbBar", number_format="0.000")
+            w.cell(r, 4, f"={pre}AmbBar*(1+{t_ref}/{t_day}*((G{ref}/AmbientBar)^(0.4/1.4)-1))^(1.4/0.4)",
+                   number_format="0.000")
+            w.cell(r, 5, f"={t_day}*(1+((D{r}/{pre}AmbBar)^(0.4/1.4)-1)/CompressorEff)-273.15", number_format="0.0")
+            w.cell(r, 6, f"=D{ref}", number_format="0")
+            w.cell(r, 7, f"=FS_FUEL_DEMAND(B{r},E{r},F{r},FuelName,CombustionEff)", number_format="0.0")
+            w.cell(r, 8, f"=G{r}/NeedleCount", number_format="0.00")
+            w.row += 1
+        bk.day_rows[day] = rows
     ws.freeze_panes = "B3"
-    bk.cells["full fuel [g/min]"] = _eng(bk, "I", -1)
-    bk.cells["idle fuel [g/min]"] = _eng(bk, "I", 0)
-    bk.cells["full case pressure [bar gauge]"] = _eng(bk, "F", -1)
+    _add(bk, "engine", "fuel at full power, cold day [g/min]", f"={_day(bk, 'cold', 'G', -1)}", "g/min",
+         "cold day, full power", "0.0")
+    _add(bk, "engine", "fuel at full power, cold day [mL/min]",
+         f"={_day(bk, 'cold', 'G', -1)}/FS_DENSITY(FuelName,ColdPumpC,OilPct)*1000", "mL/min",
+         "cold day, full power (at the pump's fuel temperature)", "0.0")
+    _add(bk, "engine", "fuel at idle, hot day [g/min]", f"={_day(bk, 'hot', 'G', 0)}", "g/min", "hot day, idle",
+         "0.0")
+    _add(bk, "engine", "fuel at idle, hot day [mL/min]",
+         f"={_day(bk, 'hot', 'G', 0)}/FS_DENSITY(FuelName,HotPumpC,OilPct)*1000", "mL/min",
+         "hot day, idle (at the pump's fuel temperature)", "0.0")
+    _add(bk, "engine", "case pressure at full power, cold day [bar gauge]", f"={_day(bk, 'cold', 'C', -1)}",
+         "bar gauge", "cold day, full power", "0.000")
 
 
 def sheet_fuel(wb, bk):
@@ -179,11 +291,12 @@ def sheet_fuel(wb, bk):
             comment="The built-in kerosene is a generic Jet A-1-type fuel. For your own fuel, fill in the table "
                     "at the right and point the defined name FuelName at it.")
     w.input("turbine oil in the fuel", "OilPct", f["oil_pct"], "% vol", low=0, high=20)
-    w.input("fuel temperature, cold day", "ColdC", f["cold_c"], "°C", low=-40, high=60)
-    w.input("fuel temperature, hot day", "HotC", f["hot_c"], "°C", low=-40, high=60)
+    w.note("Fuel temperatures come from the Envelope sheet: at the pump (the tank) and at the ring and needles.")
     w.heading("Properties of the fuel with its oil", sub=True)
-    w.header_row(["property", "cold day", "hot day", "unit"])
-    rows = (("density", "=FS_DENSITY(FuelName,{t},OilPct)", "kg/m³", "0.0"),
+    w.header_row(["property", "cold day, pump", "cold day, ring", "hot day, pump", "hot day, ring", "unit"])
+    temps = ("ColdPumpC", "ColdRingC", "HotPumpC", "HotRingC")
+    rows = (("temperature", "={t}", "°C", "0.0"),
+            ("density", "=FS_DENSITY(FuelName,{t},OilPct)", "kg/m³", "0.0"),
             ("viscosity", "=FS_VISCOSITY(FuelName,{t},OilPct)", "mm²/s", "0.000"),
             ("specific heat", "=FS_SPECIFIC_HEAT(FuelName,{t},OilPct)", "kJ/(kg·K)", "0.000"),
             ("vapour pressure (fuel alone)", "=FS_VAPOUR_PRESSURE(FuelName,{t})", "bar abs", "0.0000"),
@@ -191,29 +304,29 @@ def sheet_fuel(wb, bk):
     for label, fml, unit, fmt in rows:
         r = w.row
         w.cell(r, 1, label)
-        w.cell(r, 2, fml.format(t="ColdC"), number_format=fmt)
-        w.cell(r, 3, fml.format(t="HotC"), number_format=fmt)
-        w.cell(r, 4, unit)
+        for j, t in enumerate(temps, start=2):
+            w.cell(r, j, fml.format(t=t), number_format=fmt)
+        w.cell(r, 6, unit)
         w.row += 1
     w.heading("Combustion and boiling", sub=True)
     w.result("lower heating value", "=FS_HEATING_VALUE(FuelName)", "MJ/kg", number_format="0.00")
     w.result("stoichiometric fuel/air ratio", "=FS_STOICH_FAR(FuelName)", "kg/kg", name="StoichFar",
              number_format="0.0000")
-    w.result("bubble point at ambient pressure", "=FS_BUBBLE_POINT(FuelName,AmbientBar)", "°C",
+    w.result("bubble point at the cold day's ambient pressure", "=FS_BUBBLE_POINT(FuelName,ColdAmbBar)", "°C",
              number_format="0.0")
-    w.result("dew point of the vapour at ambient pressure", "=FS_DEW_POINT(FuelName,AmbientBar)", "°C",
-             number_format="0.0")
+    w.result("dew point of the vapour at the cold day's ambient pressure", "=FS_DEW_POINT(FuelName,ColdAmbBar)",
+             "°C", number_format="0.0")
     # the builder's own fuel: a table of labels and values, used by pointing FuelName at it
-    ws.column_dimensions["F"].width = 30
-    ws.cell(1, 6, "your own fuel (optional)").font = Font(bold=True, color="2F3E4E")
+    ws.column_dimensions["J"].width = 30
+    ws.cell(1, 10, "your own fuel (optional)").font = Font(bold=True, color="2F3E4E")
     own = (("name", "my kerosene"), ("density at 15 °C [kg/m³]", 803), ("D86 10 % [°C]", 170),
            ("D86 50 % [°C]", 200), ("D86 90 % [°C]", 240), ("D86 FBP [°C]", 262),
            ("viscosity at -20 °C [mm²/s]", 4.1), ("viscosity at 40 °C [mm²/s]", 1.35),
            ("lower heating value [MJ/kg]", 43.1))
     for i, (label, value) in enumerate(own, start=2):
-        ws.cell(i, 6, label)
-        w.cell(i, 7, value, is_input=True)
-    ws.cell(len(own) + 2, 6, "To use it, point the name FuelName at =Fuel!$F$2:$G$10 (LibreOffice: Sheet > Named "
+        ws.cell(i, 10, label)
+        w.cell(i, 11, value, is_input=True)
+    ws.cell(len(own) + 2, 10, "To use it, point the name FuelName at =Fuel!$J$2:$K$10 (LibreOffice: Sheet > Named "
                              "Ranges > Manage; Excel: Formulas > Name Manager)").font = NOTE_FONT
 
 
@@ -224,33 +337,78 @@ def sheet_needles(wb, bk):
     w.heading("Injector needles and ring manifold")
     w.input("needle gauge", "NeedleGauge", n["gauge"], "G (ISO 9626)", choices=tuple(range(14, 34)))
     w.input("wall class", "NeedleWall", n["wall"], "", choices=("normal", "thin", "extra-thin"))
-    w.input("needles (one per vaporiser tube)", "NeedleCount", n["count"], "-", low=1, high=24, whole=True)
+    w.input("needles (one per vaporiser tube)", "NeedleCount", n["count"], "-", low=2, high=MAX_NEEDLES,
+            whole=True, comment=f"Every per-needle table below has {MAX_NEEDLES} rows; the rows past this count "
+                                "stay blank.")
     w.input("needle length", "NeedleLengthMm", n["length_mm"], "mm", low=1, high=300)
-    w.input("measured bore (leave empty to use the standard's)", "MeasuredBoreMm", None, "mm", low=0.05, high=5)
-    w.result("bore used", "=IF(ISNUMBER(MeasuredBoreMm),MeasuredBoreMm,FS_NEEDLE_BORE(NeedleGauge,NeedleWall))",
-             "mm", name="NeedleBoreMm", number_format="0.000")
+    w.input("bore tolerance (half band)", "BoreTolMm", n["bore_tol_mm"], "mm", low=0, high=0.5)
+    w.input("length tolerance (half band)", "LengthTolMm", n["length_tol_mm"], "mm", low=0, high=20)
+    w.input("measured bore, one for all (leave empty to use the bench test or the typical bore)", "MeasuredBoreMm",
+            None, "mm", low=0.05, high=5)
+    w.result("ISO 9626 minimum bore", "=FS_NEEDLE_BORE(NeedleGauge,NeedleWall)", "mm", name="IsoBoreMm",
+             number_format="0.000")
+    w.result("typical bore (the minimum plus the tolerance: mid-band)", "=IsoBoreMm+BoreTolMm", "mm",
+             name="TypicalBoreMm", number_format="0.000")
+    r_bench_mean = w.row  # filled in once the bench table is laid out
+    w.result("bench test: mean effective bore", "", "mm", name="BenchBoreMm", number_format="0.0000")
+    w.result("bore used", "=IF(ISNUMBER(MeasuredBoreMm),MeasuredBoreMm,IF(ISNUMBER(BenchBoreMm),BenchBoreMm,"
+                          "TypicalBoreMm))", "mm", name="NeedleBoreMm", number_format="0.0000")
+    r_source = w.row
+    w.result("bore from", "", "", name="BoreSource")
     w.result("outside diameter", "=FS_NEEDLE_OD(NeedleGauge)", "mm", name="NeedleOdMm", number_format="0.000")
     w.result("chosen", '=NeedleCount&" needles of "&NeedleGauge&" G "&NeedleWall&" wall, bore "'
                        '&ROUND(NeedleBoreMm,3)&" mm, "&NeedleLengthMm&" mm long"', "")
-    bk.cells["needles"] = f"Needles!$B${w.row - 1}"
-    w.heading("Each needle at each operating point", sub=True)
-    w.header_row(["point", "flow [g/min]", "Δp cold day [bar]", "Δp hot day [bar]", "Reynolds, cold",
-                  "jet velocity, cold [m/s]", "supply [bar gauge]"])
+    chosen = f"Needles!$B${w.row - 1}"
+
+    w.heading("Each needle at each operating point, both days", sub=True)
+    w.note("Flow per needle from the Engine sheet's day tables; the drop at the fuel's temperature at the ring "
+           "(Envelope). Supply = needle drop + case pressure: what the ring must hold.")
+    w.header_row(["point", "cold: flow [g/min]", "cold: Δp [bar]", "cold: supply [bar gauge]", "cold: Reynolds",
+                  "hot: flow [g/min]", "hot: Δp [bar]", "hot: supply [bar gauge]", "hot: Reynolds",
+                  "cold: jet velocity [m/s]"])
     first = w.row
     for i in range(bk.points):
         r = w.row
         w.cell(r, 1, f"={_eng(bk, 'A', i)}")
-        w.cell(r, 2, f"={_eng(bk, 'J', i)}", number_format="0.00")
-        w.cell(r, 3, f"=FS_NEEDLE_DP(NeedleBoreMm,NeedleLengthMm,B{r},FuelName,ColdC,OilPct)", number_format="0.000")
-        w.cell(r, 4, f"=FS_NEEDLE_DP(NeedleBoreMm,NeedleLengthMm,B{r},FuelName,HotC,OilPct)", number_format="0.000")
-        w.cell(r, 5, f"=FS_NEEDLE_REYNOLDS(NeedleBoreMm,B{r},FuelName,ColdC,OilPct)", number_format="0")
-        w.cell(r, 6, f"=FS_NEEDLE_VELOCITY(NeedleBoreMm,B{r},FuelName,ColdC,OilPct)", number_format="0.00")
-        w.cell(r, 7, f"=C{r}+{_eng(bk, 'F', i)}", number_format="0.000")
+        for c0, day, pre in ((2, "cold", "Cold"), (6, "hot", "Hot")):
+            fl, dp, sup, re_ = (col(c0 + k) for k in range(4))
+            w.cell(r, c0, f"={_day(bk, day, 'H', i)}", number_format="0.00")
+            w.cell(r, c0 + 1, f"=FS_NEEDLE_DP(NeedleBoreMm,NeedleLengthMm,{fl}{r},FuelName,{pre}RingC,OilPct)",
+                   number_format="0.000")
+            w.cell(r, c0 + 2, f"={dp}{r}+{_day(bk, day, 'C', i)}", number_format="0.000")
+            w.cell(r, c0 + 3, f"=FS_NEEDLE_REYNOLDS(NeedleBoreMm,{fl}{r},FuelName,{pre}RingC,OilPct)",
+                   number_format="0")
+        w.cell(r, 10, f"=FS_NEEDLE_VELOCITY(NeedleBoreMm,B{r},FuelName,ColdRingC,OilPct)", number_format="0.00")
         w.row += 1
+    last = w.row - 1
     bk.needle_rows = list(range(first, w.row))
-    bk.cells["flow per needle at full power [g/min]"] = f"Needles!$B${w.row - 1}"
-    bk.cells["needle Δp at full power, cold day [bar]"] = f"Needles!$C${w.row - 1}"
-    bk.cells["needle Δp at idle, hot day [bar]"] = f"Needles!$D${first}"
+    # the pressure limit is the highest supply over both days, the distribution limit the least drop
+    hi = (f'=IF(MAX(D{first}:D{last})>=MAX(H{first}:H{last}),"cold day, "&INDEX(A{first}:A{last},'
+          f'MATCH(MAX(D{first}:D{last}),D{first}:D{last},0)),"hot day, "&INDEX(A{first}:A{last},'
+          f'MATCH(MAX(H{first}:H{last}),H{first}:H{last},0)))')
+    lo = (f'=IF(MIN(C{first}:C{last})<=MIN(G{first}:G{last}),"cold day, "&INDEX(A{first}:A{last},'
+          f'MATCH(MIN(C{first}:C{last}),C{first}:C{last},0)),"hot day, "&INDEX(A{first}:A{last},'
+          f'MATCH(MIN(G{first}:G{last}),G{first}:G{last},0)))')
+    w.result("highest supply pressure (the pressure limit)", f"=MAX(D{first}:D{last},H{first}:H{last})",
+             "bar gauge", name="NeedleSupplyMaxBar", number_format="0.000")
+    w.result("  at", hi, "")
+    w.result("least needle drop (the distribution limit)", f"=MIN(C{first}:C{last},G{first}:G{last})", "bar",
+             name="NeedleDpMinBar", number_format="0.000")
+    w.result("  at", lo, "")
+    _add(bk, "needles", "needles", f"={chosen}")
+    _add(bk, "needles", "bore used [mm]", "=NeedleBoreMm", "mm", "=BoreSource", "0.0000")
+    _add(bk, "needles", "flow per needle at full power, cold day [g/min]", f"=Needles!$B${last}", "g/min",
+         "cold day, full power", "0.00")
+    _add(bk, "needles", "flow per needle at idle, hot day [g/min]", f"=Needles!$F${first}", "g/min",
+         "hot day, idle", "0.00")
+    _add(bk, "needles", "flow per needle at idle, hot day [mL/min]",
+         f"=Needles!$F${first}/FS_DENSITY(FuelName,HotRingC,OilPct)*1000", "mL/min", "hot day, idle", "0.00")
+    _add(bk, "needles", "needle supply, highest (pressure limit) [bar gauge]", "=NeedleSupplyMaxBar", "bar gauge",
+         f"=Needles!$B${w.row - 3}", "0.000")
+    _add(bk, "needles", "needle Δp at full power, cold day [bar]", f"=Needles!$C${last}", "bar",
+         "cold day, full power", "0.000")
+    _add(bk, "needles", "needle Δp, least (distribution limit) [bar]", "=NeedleDpMinBar", "bar",
+         f"=Needles!$B${w.row - 1}", "0.000")
 
     w.heading("Flow against pressure drop (for the chart)", sub=True)
     w.header_row(["Δp [bar]", "flow cold [g/min]", "flow hot [g/min]"])
@@ -258,48 +416,50 @@ def sheet_needles(wb, bk):
     for k, dp in enumerate((0.1, 0.25, 0.5, 0.75, 1.0, 1.5, 2.0, 2.5, 3.0, 4.0, 5.0, 6.0)):
         r = w.row
         w.cell(r, 1, dp, is_input=True)
-        w.cell(r, 2, f"=FS_NEEDLE_FLOW(NeedleBoreMm,NeedleLengthMm,A{r},FuelName,ColdC,OilPct)", number_format="0.0")
-        w.cell(r, 3, f"=FS_NEEDLE_FLOW(NeedleBoreMm,NeedleLengthMm,A{r},FuelName,HotC,OilPct)", number_format="0.0")
+        w.cell(r, 2, f"=FS_NEEDLE_FLOW(NeedleBoreMm,NeedleLengthMm,A{r},FuelName,ColdRingC,OilPct)",
+               number_format="0.0")
+        w.cell(r, 3, f"=FS_NEEDLE_FLOW(NeedleBoreMm,NeedleLengthMm,A{r},FuelName,HotRingC,OilPct)",
+               number_format="0.0")
         w.row += 1
-    bk.needle_chart = (chart_first, w.row - 1)
+    needle_chart = (chart_first, w.row - 1)
 
-    w.heading("Ring manifold at full power, cold day", sub=True)
+    # bench rows are laid out below the ring; their row numbers are known here
+    w.heading("Ring manifold: cold-day full power and hot-day idle", sub=True)
     w.input("ring tube bore", "RingBoreMm", n["ring_bore_mm"], "mm", low=0.5, high=20)
     w.input("ring centre-line diameter", "RingDiaMm", n["ring_dia_mm"], "mm", low=10, high=500)
-    full_supply = f"G{bk.needle_rows[-1]}"
-    w.result("supply pressure at the feed", f"={full_supply}", "bar gauge", name="RingSupplyBar",
+    w.result("supply at the feed, cold day full power", f"=D{last}", "bar gauge", name="RingSupplyBar",
              number_format="0.000")
-    w.note(f"Needle bores in order round the ring from the feed (a measured bore per needle is better). The table "
-           f"holds {int(bk.s.NEEDLES['count'])} rows: for another needle count add or remove rows and widen the "
-           "formula's range.")
-    w.header_row(["needle", "bore [mm]", "flow [g/min]", "against mean [%]"])
-    first = w.row
-    count = int(bk.s.NEEDLES["count"])
-    last = first + count - 1
-    for k in range(count):
-        r = first + k
-        w.cell(r, 1, k + 1)
-        w.cell(r, 2, "=NeedleBoreMm", number_format="0.000")
-    formula = (f"=FS_MANIFOLD_SPLIT(B{first}:B{last},NeedleLengthMm,RingSupplyBar,{_eng(bk, 'F', -1)},"
-               f"RingBoreMm,RingDiaMm,FuelName,ColdC,OilPct)")
-    ws[f"C{first}"] = ArrayFormula(f"C{first}:C{last}", formula)
-    for k in range(count):
-        r = first + k
-        w.cell(r, 4, f"=(C{r}/AVERAGE(C${first}:C${last})-1)*100", number_format="0.00")
-    w.row = last + 1
-    bk.cells["ring: largest needle deviation [%]"] = f"Needles!$B${w.row}"
-    w.result("largest deviation from the mean", f"=MAX(ABS(MAX(D{first}:D{last})),ABS(MIN(D{first}:D{last})))",
-             "%", number_format="0.00")
-
-    w.heading("Tolerance study at full power, cold day", sub=True)
-    w.input("bore tolerance (half band)", "BoreTolMm", n["bore_tol_mm"], "mm", low=0, high=0.5)
-    w.input("length tolerance (half band)", "LengthTolMm", n["length_tol_mm"], "mm", low=0, high=20)
-    r = w.row
-    formula = (f"=FS_TOLERANCE_SPREAD(NeedleGauge,NeedleWall,NeedleCount,NeedleLengthMm,C{bk.needle_rows[-1]},"
-               f"FuelName,ColdC,BoreTolMm,LengthTolMm,2000,1,OilPct,NeedleBoreMm)")
-    ws[f"A{r}"] = ArrayFormula(f"A{r}:C{r + 12}", formula)
-    bk.cells["tolerance: spread between needles (CV) [%]"] = f"Needles!$B${r + 4}"
-    w.row = r + 13
+    w.result("supply at the feed, hot day idle", f"=H{first}", "bar gauge", name="RingSupplyIdleBar",
+             number_format="0.000")
+    w.note(f"Needle bores in order round the ring from the feed: each needle's bench-test bore where one is "
+           f"entered, otherwise the bore used. {MAX_NEEDLES} rows; those past the needle count stay blank.")
+    w.header_row(["needle", "bore [mm]", "cold, full: flow [g/min]", "cold, full: against mean [%]",
+                  "hot, idle: flow [g/min]", "hot, idle: against mean [%]"])
+    ring_first = w.row
+    ring_last = ring_first + MAX_NEEDLES - 1
+    for k in range(MAX_NEEDLES):
+        w.cell(ring_first + k, 1, k + 1)  # the bores (column B) are written once the bench rows are known
+    rng_a, rng_b = f"A{ring_first}:A{ring_last}", f"B{ring_first}:B{ring_last}"
+    for c0, supply, case, temp in ((3, "RingSupplyBar", _day(bk, "cold", "C", -1), "ColdRingC"),
+                                   (5, "RingSupplyIdleBar", _day(bk, "hot", "C", 0), "HotRingC")):
+        fc = col(c0)
+        formula = (f'=IF({rng_a}<=NeedleCount,FS_MANIFOLD_SPLIT({rng_b},NeedleLengthMm,{supply},{case},'
+                   f'RingBoreMm,RingDiaMm,FuelName,{temp},OilPct),"")')
+        ws[f"{fc}{ring_first}"] = ArrayFormula(f"{fc}{ring_first}:{fc}{ring_last}", formula)
+        for k in range(MAX_NEEDLES):
+            r = ring_first + k
+            w.cell(r, c0 + 1, f'=IF(A{r}>NeedleCount,"",({fc}{r}/AVERAGE({fc}${ring_first}:{fc}${ring_last})-1)*100)',
+                   number_format="0.00")
+    w.row = ring_last + 1
+    dev = "MAX(ABS(MAX({c}{a}:{c}{b})),ABS(MIN({c}{a}:{c}{b})))"
+    w.result("largest deviation from the mean, cold day full power",
+             "=" + dev.format(c="D", a=ring_first, b=ring_last), "%", number_format="0.00")
+    w.result("largest deviation from the mean, hot day idle",
+             "=" + dev.format(c="F", a=ring_first, b=ring_last), "%", number_format="0.00")
+    _add(bk, "needles", "ring: largest needle deviation, cold day full power [%]", f"=Needles!$B${w.row - 2}", "%",
+         "cold day, full power", "0.00")
+    _add(bk, "needles", "ring: largest needle deviation, hot day idle [%]", f"=Needles!$B${w.row - 1}", "%",
+         "hot day, idle", "0.00")
 
     w.heading("Bench test of the needles", sub=True)
     (vol_time, dp, temp), vols = n["bench"]
@@ -307,33 +467,59 @@ def sheet_needles(wb, bk):
     w.input("test pressure drop", "BenchDpBar", dp, "bar", low=0.05, high=20)
     w.input("test liquid temperature", "BenchTempC", temp, "°C", low=0, high=60)
     w.input("test liquid", "BenchFluid", "water", "", choices=("water", "kerosene"))
-    w.note(f"One row per needle ({len(vols)} rows); add or remove rows, and widen the check's range, for another set.")
-    w.header_row(["needle", "collected [mL]", "effective bore [mm]", "against median [%]", "check"])
-    first = w.row
-    last = first + len(vols) - 1
-    for k, v in enumerate(vols):
-        r = first + k
+    w.note(f"One row per needle, in order round the ring ({MAX_NEEDLES} rows; rows past the needle count are "
+           "left out). Entered bores replace the bore used above and feed the ring manifold.")
+    w.header_row(["needle", "collected [mL]", "counted [mL]", "", "effective bore [mm]", "against median [%]",
+                  "check"])
+    first_b = w.row
+    last_b = first_b + MAX_NEEDLES - 1
+    for k in range(MAX_NEEDLES):
+        r, b = ring_first + k, f"E{first_b + k}"
+        w.cell(r, 2, f'=IF(A{r}>NeedleCount,"",IF(AND(NOT(ISNUMBER(MeasuredBoreMm)),ISNUMBER({b})),{b},'
+                     f'NeedleBoreMm))', number_format="0.0000")
+    for k in range(MAX_NEEDLES):
+        r = first_b + k
         w.cell(r, 1, k + 1)
-        w.cell(r, 2, v, is_input=True)
-        w.cell(r, 3, f"=FS_BORE_FROM_TEST(B{r},BenchTimeS,BenchDpBar,NeedleLengthMm,BenchFluid,BenchTempC)",
-               number_format="0.0000")
-    ws[f"D{first}"] = ArrayFormula(f"D{first}:E{last}", f"=FS_ODD_NEEDLES(B{first}:B{last},5)")
-    bk.verdict_ranges.append(("Needles", f"E{first}:E{last}"))
-    w.row = last + 1
+        w.cell(r, 2, vols[k] if k < len(vols) else None, is_input=True)
+        w.cell(r, 3, f'=IF(A{r}>NeedleCount,"",IF(ISNUMBER(B{r}),B{r},""))')
+        w.cell(r, 5, f'=IF(ISNUMBER(C{r}),FS_BORE_FROM_TEST(C{r},BenchTimeS,BenchDpBar,NeedleLengthMm,BenchFluid,'
+                     f'BenchTempC),"")', number_format="0.0000")
+    counted = f"C{first_b}:C{last_b}"
+    ws[f"F{first_b}"] = ArrayFormula(f"F{first_b}:G{last_b}",
+                                     f'=IF(ISNUMBER({counted}),FS_ODD_NEEDLES({counted},5),"")')
+    bk.verdict_ranges.append(("Needles", f"G{first_b}:G{last_b}"))
+    w.row = last_b + 1
+    bores = f"E{first_b}:E{last_b}"
+    ws[f"B{r_bench_mean}"] = f'=IF(COUNT({bores})>0,AVERAGE({bores}),"none entered")'
+    ws[f"B{r_source}"] = (f'=IF(ISNUMBER(MeasuredBoreMm),"the measured bore typed above",IF(ISNUMBER(BenchBoreMm),'
+                          f'"bench test: mean of "&COUNT({bores})&" needles","typical: ISO 9626 minimum + '
+                          f'tolerance"))')
+
+    w.heading("Tolerance study at full power, cold day", sub=True)
+    w.note("Tubing bought to the standard: bores drawn between the ISO 9626 minimum and the minimum plus twice "
+           "the tolerance (the typical bore at the centre), lengths within their tolerance; the bench table "
+           "above shows the spread of the needles actually measured.")
+    r = w.row
+    formula = (f"=FS_TOLERANCE_SPREAD(NeedleGauge,NeedleWall,NeedleCount,NeedleLengthMm,C{last},"
+               f"FuelName,ColdRingC,BoreTolMm,LengthTolMm,2000,1,OilPct,TypicalBoreMm)")
+    ws[f"A{r}"] = ArrayFormula(f"A{r}:C{r + 12}", formula)
+    _add(bk, "needles", "tolerance: spread between needles (CV) [%]", f"=Needles!$B${r + 4}", "%",
+         "cold day, full power", "0.00")
+    w.row = r + 13
 
     chart = ScatterChart()
     chart.title = "Needle flow against pressure drop"
     chart.x_axis.title = "pressure drop [bar]"
     chart.y_axis.title = "flow per needle [g/min]"
     chart.style = 13
-    a, b = bk.needle_chart
+    a, b = needle_chart
     xs = Reference(ws, min_col=1, min_row=a, max_row=b)
     for colno, name in ((2, "cold day"), (3, "hot day")):
         ser = Series(Reference(ws, min_col=colno, min_row=a, max_row=b), xs, title=name)
         ser.marker.symbol = "circle"
         chart.series.append(ser)
     chart.height, chart.width = 8, 14
-    ws.add_chart(chart, "I3")
+    ws.add_chart(chart, "L3")
 
 
 def sheet_vaporiser(wb, bk):
@@ -341,8 +527,10 @@ def sheet_vaporiser(wb, bk):
     ws = wb.create_sheet("Vaporiser")
     w = SheetWriter(wb, ws, label_width=30)
     w.heading("Vaporiser tubes")
-    w.note("One tube per needle. Air enters from the liner pressure drop; the needle's fuel is heated by the "
-           "tube wall. Equilibrium and droplet checks are shown side by side; the verdict gives the reasons.")
+    w.note("One tube per needle, checked at every operating point on both days. Each tube's air is the engine's "
+           "air times the tubes' share of the liner's effective area (Combustor sheet), shared between the tubes; "
+           "the liner pressure drop that passes the engine's air follows from the openings' effective area "
+           "(incompressible orifice flow, Lefebvre & Ballal, Gas Turbine Combustion 3rd ed. ch. 4).")
     w.input("tube bore", "TubeBoreMm", v["tube_bore_mm"], "mm", low=1, high=40)
     w.input("heated length", "TubeLengthMm", v["heated_length_mm"], "mm", low=5, high=600)
     w.input("tube wall temperature", "WallC", v["wall_c"], "°C", low=0, high=1100)
@@ -350,47 +538,93 @@ def sheet_vaporiser(wb, bk):
     w.input("tube shape", "TubeShape", v.get("shape", "straight"), "", choices=("straight", "return"),
             comment="straight: one heated leg; return: a second leg of the same length after a 180° bend, "
                     "the outlet facing the front of the combustor")
+    w.result("tube", '=TubeBoreMm&" mm bore, "&TubeLengthMm&" mm heated, "&TubeShape', "", name="TubeSize")
     items = (("vaporised_pct", "vaporised [%]", "0.0"), ("exit_c", "exit [°C]", "0.0"),
-             ("dew_margin_k", "above dew point [K]", "0.0"), ("residence_ms", "residence [ms]", "0.00"),
-             ("droplet_life_ms", "droplet life [ms]", "0.0"), ("tube_phi", "tube φ [-]", "0.00"),
-             ("exit_velocity_m_s", "exit velocity [m/s]", "0.0"), ("flashback_margin", "velocity / flame speed", "0.0"),
-             ("max_wet_wall_c", "hottest wet wall [°C]", "0"), ("oil_residue_g_h", "oil left [g/h]", "0.0"),
-             ("dp_mbar", "tube Δp [mbar]", "0.0"), ("verdict", "verdict", None))
-    w.header_row(["point", "air per tube [g/s]", "fuel per tube [g/min]"] + [h for _, h, _ in items])
+             ("dew_margin_k", "above dew point [K]", "0.0"), ("flashback_margin", "velocity / flame speed", "0.0"),
+             ("verdict", "verdict", None))
+    w.header_row(["point", "day", "air per tube [g/s]", "liner Δp [% of case abs]", "fuel per tube [g/min]",
+                  "fuel at the needle [°C]"] + [h for _, h, _ in items])
     first = w.row
-    for i in range(bk.points):
-        r = w.row
-        w.cell(r, 1, f"={_eng(bk, 'A', i)}")
-        w.cell(r, 2, f"=FS_TUBE_AIR(TubeBoreMm,LinerDpPct,{_eng(bk, 'G', i)},{_eng(bk, 'H', i)},TubeCd)",
-               number_format="0.000")
-        w.cell(r, 3, f"={_eng(bk, 'J', i)}", number_format="0.00")
-        for j, (item, _, fmt) in enumerate(items, start=4):
-            w.cell(r, j, f"=FS_VAPORISER(TubeBoreMm,TubeLengthMm,C{r},B{r},{_eng(bk, 'G', i)},{_eng(bk, 'H', i)},"
-                         f"WallC,FuelName,OilPct,\"{item}\",TubeShape)", number_format=fmt)
-        w.row += 1
-    bk.vap_rows = list(range(first, w.row))
-    verdict_col = col(3 + len(items))
-    bk.verdict_ranges.append(("Vaporiser", f"{verdict_col}{first}:{verdict_col}{w.row - 1}"))
+    bk.vap_rows = {}
+    for day, label, pre in DAYS:
+        rows = []
+        for i in range(bk.points):
+            r = w.row
+            rows.append(r)
+            air, p3, t3 = _day(bk, day, "B", i), _day(bk, day, "D", i), _day(bk, day, "E", i)
+            w.cell(r, 1, f"={_eng(bk, 'A', i)}")
+            w.cell(r, 2, label)
+            w.cell(r, 3, f"={air}*TubeShare/NeedleCount", number_format="0.000")
+            # Δp/p = (m / A_eff)² R T / (2 p²): orifice flow m = A_eff √(2 ρ Δp), ρ = p / (R T)
+            w.cell(r, 4, f"=100*({air}/1000/(LinerAreaMm2*0.000001))^2*{_R_AIR}*({t3}+273.15)/(2*({p3}*100000)^2)",
+                   number_format="0.00")
+            w.cell(r, 5, f"={_day(bk, day, 'H', i)}", number_format="0.00")
+            w.cell(r, 6, f"={pre}RingC", number_format="0.0")
+            for j, (item, _, fmt) in enumerate(items, start=7):
+                w.cell(r, j, f"=FS_VAPORISER(TubeBoreMm,TubeLengthMm,E{r},C{r},{p3},{t3},WallC,FuelName,OilPct,"
+                             f"\"{item}\",TubeShape)", number_format=fmt)
+            w.row += 1
+        bk.vap_rows[day] = rows
+    last = w.row - 1
+    verdict_col = col(6 + len(items))
+    bk.verdict_ranges.append(("Vaporiser", f"{verdict_col}{first}:{verdict_col}{last}"))
     ws.column_dimensions[verdict_col].width = 90
     for cc in range(first, w.row):
         ws[f"{verdict_col}{cc}"].alignment = Alignment(wrap_text=True, vertical="top")
         # a fixed height, so every spreadsheet program places the charts below where this book says
         ws.row_dimensions[cc].height = 64
-    bk.cells["vaporiser verdict at idle"] = f"Vaporiser!${verdict_col}${first}"
-    bk.cells["vaporiser verdict at full power"] = f"Vaporiser!${verdict_col}${w.row - 1}"
-    bk.cells["vaporised at idle [%]"] = f"Vaporiser!$D${first}"
-    bk.cells["vaporised at full power [%]"] = f"Vaporiser!$D${w.row - 1}"
-    bk.cells["above the dew point at idle [K]"] = f"Vaporiser!$F${first}"
-    bk.cells["above the dew point at full power [K]"] = f"Vaporiser!$F${w.row - 1}"
+    pts, days = f"$A${first}:$A${last}", f"$B${first}:$B${last}"
+    m = f"MATCH(MIN($I${first}:$I${last}),$I${first}:$I${last},0)"
+    w.result("least margin above the dew point", f"=MIN(I{first}:I{last})", "K", name="VapWorstMarginK",
+             number_format="0.0")
+    w.result("  at", f'=INDEX({days},{m})&", "&INDEX({pts},{m})', "", name="VapWorstCorner")
+    w.result("  vaporised there", f"=INDEX($G${first}:$G${last},{m})", "%", number_format="0.0")
+    w.result("  verdict there", f"=INDEX(${verdict_col}${first}:${verdict_col}${last},{m})", "")
+    bk.verdict_ranges.append(("Vaporiser", f"B{w.row - 1}"))
+    w.result("liner Δp, least and most over both days",
+             f'=ROUND(MIN(D{first}:D{last}),2)&" to "&ROUND(MAX(D{first}:D{last}),2)', "% of case abs")
+    _add(bk, "vaporiser", "tube size", "=TubeSize")
+    _add(bk, "vaporiser", "vaporiser: least margin above the dew point [K]", "=VapWorstMarginK", "K",
+         "=VapWorstCorner", "0.0")
+    _add(bk, "vaporiser", "vaporised at that corner [%]", f"=Vaporiser!$B${w.row - 3}", "%", "=VapWorstCorner",
+         "0.0")
+    _add(bk, "vaporiser", "vaporiser verdict at that corner", f"=Vaporiser!$B${w.row - 2}", "", "=VapWorstCorner")
+    _add(bk, "vaporiser", "vaporised at idle, cold day [%]", f"=Vaporiser!$G${bk.vap_rows['cold'][0]}", "%",
+         "cold day, idle", "0.0")
+    _add(bk, "vaporiser", "vaporised at full power, cold day [%]", f"=Vaporiser!$G${bk.vap_rows['cold'][-1]}", "%",
+         "cold day, full power", "0.0")
+    _add(bk, "vaporiser", "vaporiser verdict at full power, cold day", f"=Vaporiser!${verdict_col}${bk.vap_rows['cold'][-1]}",
+         "", "cold day, full power")
+    _add(bk, "vaporiser", "liner Δp at idle, cold day [% of case abs]", f"=Vaporiser!$D${bk.vap_rows['cold'][0]}",
+         "%", "cold day, idle", "0.00")
+    _add(bk, "vaporiser", "liner Δp at full power, cold day [% of case abs]",
+         f"=Vaporiser!$D${bk.vap_rows['cold'][-1]}", "%", "cold day, full power", "0.00")
 
-    # profiles along the tube at idle and at full power
-    profiles = []
-    for label, i in (("idle", 0), ("full power", bk.points - 1)):
-        w.heading(f"Along the tube at {label}", sub=True)
+    # the remaining items at the two corners that bound the tube: cold-day idle and hot-day full power
+    w.heading("More of the tube at its two bounding corners", sub=True)
+    corners = (("cold day, idle", bk.vap_rows["cold"][0], "cold", 0),
+               ("hot day, full power", bk.vap_rows["hot"][-1], "hot", bk.points - 1))
+    w.header_row(["item"] + [c[0] for c in corners] + ["unit"])
+    more = (("residence_ms", "residence time", "ms", "0.00"), ("droplet_life_ms", "droplet life", "ms", "0.0"),
+            ("tube_phi", "tube φ", "-", "0.00"), ("exit_velocity_m_s", "exit velocity", "m/s", "0.0"),
+            ("max_wet_wall_c", "hottest wet wall", "°C", "0"), ("oil_residue_g_h", "oil left", "g/h", "0.0"),
+            ("dp_mbar", "tube Δp", "mbar", "0.0"))
+    for item, label, unit, fmt in more:
         r = w.row
-        vr = first + i
-        formula = (f"=FS_VAPORISER_PROFILE(TubeBoreMm,TubeLengthMm,C{vr},B{vr},{_eng(bk, 'G', i)},"
-                   f"{_eng(bk, 'H', i)},WallC,FuelName,OilPct,11,TubeShape)")
+        w.cell(r, 1, label)
+        for j, (_, vr, day, i) in enumerate(corners, start=2):
+            w.cell(r, j, f"=FS_VAPORISER(TubeBoreMm,TubeLengthMm,E{vr},C{vr},{_day(bk, day, 'D', i)},"
+                         f"{_day(bk, day, 'E', i)},WallC,FuelName,OilPct,\"{item}\",TubeShape)", number_format=fmt)
+        w.cell(r, 4, unit)
+        w.row += 1
+
+    # profiles along the tube at the two corners
+    profiles = []
+    for label, vr, day, i in corners:
+        w.heading(f"Along the tube, {label}", sub=True)
+        r = w.row
+        formula = (f"=FS_VAPORISER_PROFILE(TubeBoreMm,TubeLengthMm,E{vr},C{vr},{_day(bk, day, 'D', i)},"
+                   f"{_day(bk, day, 'E', i)},WallC,FuelName,OilPct,11,TubeShape)")
         ws[f"A{r}"] = ArrayFormula(f"A{r}:E{r + 11}", formula)
         profiles.append((label, r))
         w.row = r + 12
@@ -417,8 +651,10 @@ def sheet_combustor(wb, bk):
     w.note("Every liner opening sees the same pressure drop, so the air divides by effective area (holes x Cd x "
            "area). The primary zone gets the vaporiser tubes' air and the primary holes'; the fuel burned is the "
            "fuel flow times the combustion efficiency, as in the engine's fuel demand.")
-    w.note("One row per zone name; the shares below are found by these names.")
-    w.header_row(["zone", "holes", "diameter [mm]", "Cd (empty: plain hole)", "", "zone", "air share [-]"])
+    w.note(f"One row per zone name; the shares below are found by these names. An empty Cd is a plain hole "
+           f"({_CD_PLAIN}).")
+    w.header_row(["zone", "holes", "diameter [mm]", "Cd (empty: plain hole)", "effective area [mm²]", "zone",
+                  "air share [-]"])
     first = w.row
     openings = bk.s.COMBUSTOR["openings"]
     for k, (zone, count, dia) in enumerate(openings):
@@ -428,6 +664,7 @@ def sheet_combustor(wb, bk):
         w.cell(r, 2, "=NeedleCount" if tube else count, is_input=not tube)
         w.cell(r, 3, "=TubeBoreMm" if tube else dia, is_input=not tube, number_format="0.00")
         w.cell(r, 4, "=TubeCd" if tube else None, is_input=not tube)
+        w.cell(r, 5, f"=B{r}*IF(ISNUMBER(D{r}),D{r},{_CD_PLAIN})*PI()/4*C{r}^2", number_format="0.0")
     last = first + len(openings) - 1
     ws[f"F{first}"] = ArrayFormula(f"F{first}:G{last}",
                                    f"=FS_ZONE_AIR(B{first}:B{last},C{first}:C{last},D{first}:D{last},"
@@ -435,42 +672,46 @@ def sheet_combustor(wb, bk):
     w.row = last + 1
     # found by the zone names typed in column A (one row per zone), whose order FS_ZONE_AIR keeps
     share = f"INDEX($G${first}:$G${last},MATCH(\"{{}}\",$A${first}:$A${last},0))"
+    w.result("liner effective area (all openings)", f"=SUM(E{first}:E{last})", "mm²", name="LinerAreaMm2",
+             number_format="0.0")
     w.result("tubes' share", "=" + share.format("tubes"), "-", name="TubeShare", number_format="0.000")
     w.result("primary share (tubes + primary holes)", "=TubeShare+" + share.format("primary"), "-",
              name="PrimaryShare", number_format="0.000")
     w.result("secondary share", "=" + share.format("secondary"), "-", name="SecondaryShare", number_format="0.000")
-    bk.cells["primary-zone air share [-]"] = f"Combustor!$B${w.row - 2}"
-    w.heading("From idle to full power", sub=True)
+    _add(bk, "combustor", "primary-zone air share [-]", "=PrimaryShare", "-", "", "0.000")
+    w.heading("From idle to full power, both days", sub=True)
     w.note("Primary φ counts all the fuel; the secondary zone and the exit count the fuel burned (fuel x "
-           "combustion efficiency), so the exit comes back to the turbine inlet the fuel demand was set for. The "
-           "last two columns check the liner against the engine: the air the openings pass at the set liner "
-           "pressure drop (from the tubes' air), and the drop that would pass the engine's air.")
-    w.header_row(["point", "fuel burned [g/min]", "primary φ", "primary flame [°C]", "secondary φ (burned)",
-                  "secondary zone [°C]", "exit, mixed out [°C]", "turbine inlet set [°C]", "exit - set [K]",
-                  "liner air at set Δp [g/s]", "Δp for engine air [%]"])
+           "combustion efficiency), so the exit comes back to the turbine inlet the fuel demand was set for.")
+    w.header_row(["point", "day", "fuel burned [g/min]", "primary φ", "primary flame [°C]", "secondary φ (burned)",
+                  "secondary zone [°C]", "exit, mixed out [°C]", "turbine inlet set [°C]", "exit - set [K]"])
     op_first = w.row
-    for i in range(bk.points):
-        r = w.row
-        air, t3, p3 = _eng(bk, "C", i), _eng(bk, "H", i), _eng(bk, "G", i)
-        w.cell(r, 1, f"={_eng(bk, 'A', i)}")
-        w.cell(r, 2, f"={_eng(bk, 'I', i)}*CombustionEff", number_format="0.0")
-        w.cell(r, 3, f"=FS_ZONE_PHI({_eng(bk, 'I', i)},{air},PrimaryShare,FuelName)", number_format="0.000")
-        w.cell(r, 4, f"=FS_FLAME_TEMP(FuelName,C{r},{t3},{p3})", number_format="0")
-        w.cell(r, 5, f"=FS_ZONE_PHI(B{r},{air},PrimaryShare+SecondaryShare,FuelName)", number_format="0.000")
-        w.cell(r, 6, f"=FS_FLAME_TEMP(FuelName,E{r},{t3},{p3},\"complete\")", number_format="0")
-        # hot stream: the secondary zone's gas (its air plus the fuel burned), mixed with the dilution air
-        w.cell(r, 7, f"=FS_MIX_TEMP(F{r},{air}*(PrimaryShare+SecondaryShare)+B{r}/60,{t3},{air}*(1-PrimaryShare-"
-                     f"SecondaryShare),B{r}/60/({air}*(PrimaryShare+SecondaryShare)),FuelName)", number_format="0")
-        w.cell(r, 8, f"={_eng(bk, 'D', i)}", number_format="0")
-        w.cell(r, 9, f"=G{r}-H{r}", number_format="0.0")
-        w.cell(r, 10, f"=Vaporiser!B{bk.vap_rows[i]}*NeedleCount/TubeShare", number_format="0.0")
-        # orifice flow goes as the root of the pressure drop (incompressible, Lefebvre & Ballal ch. 4)
-        w.cell(r, 11, f"=LinerDpPct*({air}/J{r})^2", number_format="0.00")
-        w.row += 1
+    bk.comb_rows = {}
+    for day, label, pre in DAYS:
+        rows = []
+        for i in range(bk.points):
+            r = w.row
+            rows.append(r)
+            air, t3, p3, fuel = (_day(bk, day, c, i) for c in "BEDG")
+            w.cell(r, 1, f"={_eng(bk, 'A', i)}")
+            w.cell(r, 2, label)
+            w.cell(r, 3, f"={fuel}*CombustionEff", number_format="0.0")
+            w.cell(r, 4, f"=FS_ZONE_PHI({fuel},{air},PrimaryShare,FuelName)", number_format="0.000")
+            w.cell(r, 5, f"=FS_FLAME_TEMP(FuelName,D{r},{t3},{p3})", number_format="0")
+            w.cell(r, 6, f"=FS_ZONE_PHI(C{r},{air},PrimaryShare+SecondaryShare,FuelName)", number_format="0.000")
+            w.cell(r, 7, f"=FS_FLAME_TEMP(FuelName,F{r},{t3},{p3},\"complete\")", number_format="0")
+            # hot stream: the secondary zone's gas (its air plus the fuel burned), mixed with the dilution air
+            w.cell(r, 8, f"=FS_MIX_TEMP(G{r},{air}*(PrimaryShare+SecondaryShare)+C{r}/60,{t3},{air}*(1-PrimaryShare-"
+                         f"SecondaryShare),C{r}/60/({air}*(PrimaryShare+SecondaryShare)),FuelName)", number_format="0")
+            w.cell(r, 9, f"={_day(bk, day, 'F', i)}", number_format="0")
+            w.cell(r, 10, f"=H{r}-I{r}", number_format="0.0")
+            w.row += 1
+        bk.comb_rows[day] = rows
     op_last = w.row - 1
-    bk.cells["primary flame at full power [°C]"] = f"Combustor!$D${op_last}"
-    bk.cells["primary φ at full power"] = f"Combustor!$C${op_last}"
-    bk.cells["liner Δp that passes the engine's air at full power [%]"] = f"Combustor!$K${op_last}"
+    full_cold = bk.comb_rows["cold"][-1]
+    _add(bk, "combustor", "primary flame at full power, cold day [°C]", f"=Combustor!$E${full_cold}", "°C",
+         "cold day, full power", "0")
+    _add(bk, "combustor", "primary φ at full power, cold day", f"=Combustor!$D${full_cold}", "-",
+         "cold day, full power", "0.000")
 
     bars = BarChart()
     bars.title = "Air share by zone"
@@ -481,13 +722,14 @@ def sheet_combustor(wb, bk):
     bars.height, bars.width = 7, 11
     ws.add_chart(bars, "M3")
     temps = ScatterChart()
-    temps.title = "Zone temperatures from idle to full power"
+    temps.title = "Zone temperatures from idle to full power, cold day"
     temps.x_axis.title = "shaft speed [rpm]"
     temps.y_axis.title = "temperature [°C]"
     temps.style = 13
     speeds = Reference(wb["Engine"], min_col=2, min_row=bk.op_rows[0], max_row=bk.op_rows[-1])
-    for colno, name in ((4, "primary flame"), (6, "secondary zone"), (7, "exit")):
-        ser = Series(Reference(ws, min_col=colno, min_row=op_first, max_row=op_last), speeds, title=name)
+    rows = bk.comb_rows["cold"]
+    for colno, name in ((5, "primary flame"), (7, "secondary zone"), (8, "exit")):
+        ser = Series(Reference(ws, min_col=colno, min_row=rows[0], max_row=rows[-1]), speeds, title=name)
         ser.marker.symbol = "circle"
         temps.series.append(ser)
     temps.height, temps.width = 8, 14
@@ -506,48 +748,85 @@ def sheet_pump(wb, bk):
     w.input("manoeuvre load factor", "GLoad", p["g_load"], "g", low=0, high=20)
     w.input("margin on the pressure needed", "MarginPct", p["margin_pct"], "%", low=0, high=200)
     w.input("battery voltage under load", "BatteryV", p["battery_v"], "V", low=1, high=60)
+    w.input("motor winding resistance (measured across its terminals; optional)", "WindingOhm", p.get("winding_ohm"),
+            "Ω", low=0, high=100,
+            comment="With it, a bench test at one fuel temperature gives the voltages at the envelope's "
+                    "temperatures: the fit parts the motor's resistance loss from the pump's slip. Assumed: the "
+                    "slip is laminar (slip flow goes as 1/viscosity, Wilson 1949) and the resistance holds at every "
+                    "temperature (copper rises about 0.4 %/K: measure it at the running temperature). Without it, "
+                    "test at two or more fuel temperatures, or the fit holds only at the test temperature.")
+    w.input("motor speed constant kv (optional)", "MotorKv", p.get("kv_rpm_per_v"), "rpm/V", low=1, high=100000,
+            comment="From the motor's data sheet; gives the pump's displacement per revolution in the fit.")
     w.heading("Bench test points of the pump", sub=True)
+    w.note(f"Up to {PUMP_TEST_ROWS} points, from the top row down; one fuel temperature is enough with the winding "
+           "resistance above.")
     w.header_row(["point", "flow [g/min]", "outlet [bar gauge]", "volts [V]", "fuel [°C]"])
     first = w.row
-    for k, row in enumerate(p["tests"]):
+    tests = p["tests"]
+    for k in range(PUMP_TEST_ROWS):
         r = first + k
         w.cell(r, 1, k + 1)
+        row = tests[k] if k < len(tests) else (None,) * 4
         for j, v in enumerate(row, start=2):
             w.cell(r, j, v, is_input=True)
-    last = first + len(p["tests"]) - 1
+    last = first + PUMP_TEST_ROWS - 1
     w.row = last + 1
     w.heading("Pump fit", sub=True)
     r = w.row
-    formula = f"=FS_PUMP_FIT(B{first}:B{last},C{first}:C{last},D{first}:D{last},FuelName,E{first}:E{last},,,OilPct)"
+    formula = (f"=FS_PUMP_FIT(B{first}:B{last},C{first}:C{last},D{first}:D{last},FuelName,E{first}:E{last},"
+               f"WindingOhm,MotorKv,OilPct)")
     ws[f"A{r}"] = ArrayFormula(f"A{r}:O{r + 1}", formula)
     w.define("PumpFit", f"$A${r}:$O${r + 1}")
     w.row = r + 2
-    w.heading("Along the operating line, cold day", sub=True)
-    w.header_row(["point", "fuel [g/min]", "case [bar gauge]", "needles [bar]", "line [bar]",
+    w.heading("Along the operating line, both days", sub=True)
+    w.note("Line losses, pressure needed and voltage at the fuel's temperature at the pump (Envelope sheet); "
+           "needle drops from the Needles sheet at the fuel's temperature at the ring.")
+    w.header_row(["point", "day", "fuel [g/min]", "case [bar gauge]", "needles [bar]", "line [bar]",
                   "pump outlet needed [bar gauge]", "volts needed [V]", "headroom [V]", "check"])
     op_first = w.row
-    for i in range(bk.points):
-        r = w.row
-        w.cell(r, 1, f"={_eng(bk, 'A', i)}")
-        w.cell(r, 2, f"={_eng(bk, 'I', i)}", number_format="0.0")
-        w.cell(r, 3, f"={_eng(bk, 'F', i)}", number_format="0.000")
-        w.cell(r, 4, f"=Needles!C{bk.needle_rows[i]}", number_format="0.000")
-        w.cell(r, 5, f"=FS_LINE_DP(LineBoreMm,LineLengthM,B{r},FuelName,ColdC,LineK,OilPct)", number_format="0.000")
-        w.cell(r, 6, f"=FS_PUMP_NEED(B{r},C{r},D{r},E{r},HeadM,GLoad,MarginPct,FuelName,ColdC,OilPct)",
-               number_format="0.000")
-        w.cell(r, 7, f"=FS_PUMP_VOLTS(PumpFit,B{r},F{r},FuelName,ColdC,OilPct)", number_format="0.00")
-        w.cell(r, 8, f"=BatteryV-G{r}", number_format="0.00")
-        w.cell(r, 9, f"=IF(ISNUMBER(G{r}),IF(H{r}>=0,\"ok\",\"fails: short by \"&ROUND(-H{r},2)&\" V\"),G{r})")
-        w.row += 1
+    bk.pump_rows = {}
+    for day, label, pre in DAYS:
+        rows = []
+        for i in range(bk.points):
+            r = w.row
+            rows.append(r)
+            w.cell(r, 1, f"={_eng(bk, 'A', i)}")
+            w.cell(r, 2, label)
+            w.cell(r, 3, f"={_day(bk, day, 'G', i)}", number_format="0.0")
+            w.cell(r, 4, f"={_day(bk, day, 'C', i)}", number_format="0.000")
+            w.cell(r, 5, f"=Needles!{'C' if day == 'cold' else 'G'}{bk.needle_rows[i]}", number_format="0.000")
+            w.cell(r, 6, f"=FS_LINE_DP(LineBoreMm,LineLengthM,C{r},FuelName,{pre}PumpC,LineK,OilPct)",
+                   number_format="0.000")
+            w.cell(r, 7, f"=FS_PUMP_NEED(C{r},D{r},E{r},F{r},HeadM,GLoad,MarginPct,FuelName,{pre}PumpC,OilPct)",
+                   number_format="0.000")
+            w.cell(r, 8, f"=FS_PUMP_VOLTS(PumpFit,C{r},G{r},FuelName,{pre}PumpC,OilPct)", number_format="0.00")
+            w.cell(r, 9, f"=BatteryV-H{r}", number_format="0.00")
+            w.cell(r, 10, f"=IF(ISNUMBER(H{r}),IF(I{r}>=0,\"ok\",\"fails: short by \"&ROUND(-I{r},2)&\" V\"),H{r})")
+            w.row += 1
+        bk.pump_rows[day] = rows
     op_last = w.row - 1
-    bk.verdict_ranges.append(("Pump", f"I{op_first}:I{op_last}"))
-    bk.cells["pump outlet needed at full power [bar gauge]"] = f"Pump!$F${op_last}"
-    bk.cells["pump volts at idle [V]"] = f"Pump!$G${op_first}"
-    bk.cells["pump volts at full power [V]"] = f"Pump!$G${op_last}"
-    bk.cells["battery headroom at full power [V]"] = f"Pump!$H${op_last}"
-    bk.cells["pump check at full power"] = f"Pump!$I${op_last}"
+    bk.verdict_ranges.append(("Pump", f"J{op_first}:J{op_last}"))
+    rng = {c: f"${c}${op_first}:${c}${op_last}" for c in "ABGHIJ"}
+    mx = f"MATCH(MAX({rng['H']}),{rng['H']},0)"
+    w.result("most voltage needed", f"=MAX({rng['H']})", "V", name="PumpVoltsMax", number_format="0.00")
+    w.result("  at", f'=INDEX({rng["B"]},{mx})&", "&INDEX({rng["A"]},{mx})', "", name="PumpVoltsCorner")
+    w.result("  headroom there", f"=INDEX({rng['I']},{mx})", "V", number_format="0.00")
+    w.result("  check there", f"=INDEX({rng['J']},{mx})", "")
+    bk.verdict_ranges.append(("Pump", f"B{w.row - 1}"))
+    cold_idle, hot_idle = bk.pump_rows["cold"][0], bk.pump_rows["hot"][0]
+    _add(bk, "pump", "pump outlet needed, highest [bar gauge]", f"=MAX(Pump!{rng['G']})", "bar gauge",
+         _corner_of("Pump", rng["G"], rng["A"], rng["B"], "MAX"), "0.000")
+    _add(bk, "pump", "pump outlet needed at idle, cold day [bar gauge]", f"=Pump!$G${cold_idle}", "bar gauge",
+         "cold day, idle", "0.000")
+    _add(bk, "pump", "pump outlet needed at idle, hot day [bar gauge]", f"=Pump!$G${hot_idle}", "bar gauge",
+         "hot day, idle", "0.000")
+    _add(bk, "pump", "pump volts, most needed [V]", "=PumpVoltsMax", "V", "=PumpVoltsCorner", "0.00")
+    _add(bk, "pump", "pump volts at idle, hot day [V]", f"=Pump!$H${hot_idle}", "V", "hot day, idle", "0.00")
+    _add(bk, "pump", "battery headroom at the most voltage [V]", f"=Pump!$B${w.row - 2}", "V", "=PumpVoltsCorner",
+         "0.00")
+    _add(bk, "pump", "pump check at the most voltage", f"=Pump!$B${w.row - 1}", "", "=PumpVoltsCorner")
 
-    w.heading("Pump curves at several voltages (for the chart)", sub=True)
+    w.heading("Pump curves at several voltages, cold day (for the chart)", sub=True)
     volts = (3.0, 5.0, 7.0, 9.0)
     w.header_row(["outlet [bar gauge]"] + [f"flow at {v:g} V [g/min]" for v in volts])
     c_first = w.row
@@ -555,7 +834,7 @@ def sheet_pump(wb, bk):
         r = w.row
         w.cell(r, 1, pr, is_input=True)
         for j, v in enumerate(volts, start=2):
-            w.cell(r, j, f"=FS_PUMP_FLOW(PumpFit,{v},A{r},FuelName,ColdC,OilPct)", number_format="0.0")
+            w.cell(r, j, f"=FS_PUMP_FLOW(PumpFit,{v},A{r},FuelName,ColdPumpC,OilPct)", number_format="0.0")
         w.row += 1
     c_last = w.row - 1
     chart = ScatterChart()
@@ -567,8 +846,9 @@ def sheet_pump(wb, bk):
     for j, v in enumerate(volts, start=2):
         ser = Series(ys, Reference(ws, min_col=j, min_row=c_first, max_row=c_last), title=f"pump at {v:g} V")
         chart.series.append(ser)
-    need = Series(Reference(ws, min_col=6, min_row=op_first, max_row=op_last),
-                  Reference(ws, min_col=2, min_row=op_first, max_row=op_last), title="system need")
+    cold = bk.pump_rows["cold"]
+    need = Series(Reference(ws, min_col=7, min_row=cold[0], max_row=cold[-1]),
+                  Reference(ws, min_col=3, min_row=cold[0], max_row=cold[-1]), title="system need")
     need.marker.symbol = "diamond"
     need.marker.size = 8
     chart.series.append(need)
@@ -583,21 +863,24 @@ def sheet_gas(wb, bk):
     ws = wb.create_sheet("Gas start")
     w = SheetWriter(wb, ws)
     w.heading("Gas start")
+    w.note("Checked with the cold canister (Envelope sheet): the least pressure it gives.")
     w.input("gas", "GasName", g["gas"], "", choices=("propane", "lpg-70-30", "lpg-60-40", "butane", "isobutane"))
-    w.input("canister temperature at the start", "CanisterC", bk.s.ENGINE["ambient_c"], "°C", low=-30, high=50)
+    w.result("canister temperature at the start (cold day)", "=ColdCanC", "°C", name="CanisterC", number_format="0.0")
     w.result("canister pressure", "=FS_CANISTER_PRESSURE(GasName,CanisterC)", "bar gauge", name="CanisterBar",
              number_format="0.00")
     w.input("pressure before the jet (regulated)", "JetUpBar", g["line_bar_abs"], "bar abs", low=0.1, high=30)
     w.input("jet bore", "JetBoreMm", g["jet_bore_mm"], "mm", low=0.05, high=5)
     w.input("jet length", "JetLengthMm", g["jet_length_mm"], "mm", low=0, high=500)
-    w.result("gas flow at the start (into the case at idle pressure)",
-             f"=FS_GAS_JET_FLOW(JetBoreMm,JetLengthMm,JetUpBar,{_eng(bk, 'G', 0)},GasName,CanisterC)",
+    w.result("gas flow at the start (into the case at the cold day's idle pressure)",
+             f"=FS_GAS_JET_FLOW(JetBoreMm,JetLengthMm,JetUpBar,{_day(bk, 'cold', 'D', 0)},GasName,CanisterC)",
              "g/min", name="GasFlow", number_format="0.00")
-    w.result("regulator check", "=IF(CanisterBar+AmbientBar>JetUpBar,\"ok\",\"fails: canister below regulated pressure\")",
+    w.result("regulator check",
+             "=IF(CanisterBar+ColdAmbBar>JetUpBar,\"ok\",\"fails: canister below regulated pressure\")",
              "", name="GasCheck")
     bk.verdict_ranges.append(("Gas start", f"B{w.row - 1}"))
-    bk.cells["gas flow at the start [g/min]"] = f"'Gas start'!$B${w.row - 2}"
-    bk.cells["gas start check"] = f"'Gas start'!$B${w.row - 1}"
+    _add(bk, "gas", "gas flow at the start [g/min]", f"='Gas start'!$B${w.row - 2}", "g/min", "cold canister",
+         "0.00")
+    _add(bk, "gas", "gas start check", f"='Gas start'!$B${w.row - 1}", "", "cold canister")
     w.heading("Canister over a run", sub=True)
     w.input("liquid gas in the canister", "GasLiquidG", g["liquid_g"], "g", low=1, high=20000)
     w.input("empty canister mass", "GasShellG", g["shell_g"], "g", low=0, high=20000)
@@ -606,10 +889,11 @@ def sheet_gas(wb, bk):
     formula = "=FS_CANISTER_CHILL(GasName,GasLiquidG,GasShellG,GasFlow,GasMinutes,CanisterC,\"steel\",JetUpBar,11)"
     ws[f"A{r}"] = ArrayFormula(f"A{r}:F{r + 11}", formula)
     bk.verdict_ranges.append(("Gas start", f"F{r + 1}:F{r + 11}"))
-    bk.cells["canister pressure at the end of the run [bar abs]"] = f"'Gas start'!$C${r + 11}"
+    _add(bk, "gas", "canister pressure at the end of the run [bar abs]", f"='Gas start'!$C${r + 11}", "bar abs",
+         "cold canister", "0.00")
     w.row = r + 12
     chart = ScatterChart()
-    chart.title = "Canister pressure over the run"
+    chart.title = "Canister pressure over the run (cold canister)"
     chart.x_axis.title = "minutes"
     chart.y_axis.title = "pressure [bar abs]"
     chart.style = 13
@@ -623,14 +907,23 @@ def sheet_gas(wb, bk):
 
 def sheet_summary(wb, bk):
     ws = wb.create_sheet("Summary", 1)
-    w = SheetWriter(wb, ws, label_width=48)
+    w = SheetWriter(wb, ws, label_width=52)
     w.heading("Summary of the sizing")
-    w.note("Key results, linked from the sheets. Verdict cells are highlighted.")
+    w.note("Key results, linked from the sheets, each with the corner of the envelope it belongs to (for a check: "
+           "the corner that limits it). Verdict cells are highlighted.")
     ws.column_dimensions["B"].width = 60
-    for label, ref in bk.cells.items():
+    ws.column_dimensions["C"].width = 11
+    ws.column_dimensions["D"].width = 34
+    w.header_row(["result", "value", "unit", "corner (day, point) or source"])
+    section = None
+    for sec, label, formula, unit, corner, fmt in bk.summary:
+        if sec != section:
+            section = sec
         r = w.row
-        w.result(label, f"={ref}", "", number_format="0.00")
+        w.result(label, formula, unit, number_format=fmt)
         ws[f"B{r}"].alignment = Alignment(wrap_text=True, vertical="top", horizontal="left")
+        c = ws.cell(r, 4, corner)
+        c.alignment = Alignment(wrap_text=True, vertical="top")
         if "verdict" in label or "check" in label:
             bk.verdict_ranges.append(("Summary", f"B{r}"))
     for line in SAFETY_LINES[-1:]:
@@ -661,9 +954,8 @@ def _verdict_formatting(wb, bk):
                 rng, FormulaRule(formula=[f'LEFT({top_left},{len(text)})="{text}"'], fill=fill, stopIfTrue=True))
 
 
-SECTIONS = (sheet_start, sheet_engine, sheet_fuel, sheet_needles, sheet_vaporiser, sheet_combustor, sheet_pump,
-            sheet_gas,
-            sheet_summary)
+SECTIONS = (sheet_start, sheet_envelope, sheet_engine, sheet_fuel, sheet_needles, sheet_vaporiser, sheet_combustor,
+            sheet_pump, sheet_gas, sheet_summary)
 
 
 def build(path: Path | str = STARTER_PATH, compute: bool = True, scenario=None, title_note: str = "starter",
@@ -679,7 +971,6 @@ def build(path: Path | str = STARTER_PATH, compute: bool = True, scenario=None, 
 
     wb = Workbook()
     bk = _Book(scenario or demo)
-    bk.verdict_ranges = []
     bk.title_note = title_note
     for section in SECTIONS:
         section(wb, bk)
