@@ -774,7 +774,8 @@ def sheet_pump(wb, bk):
     w.heading("Pump fit", sub=True)
     r = w.row
     formula = (f"=FS_PUMP_FIT(B{first}:B{last},C{first}:C{last},D{first}:D{last},FuelName,E{first}:E{last},"
-               f"WindingOhm,MotorKv,OilPct)")
+               f'IF(ISNUMBER(WindingOhm),WindingOhm,""),IF(ISNUMBER(MotorKv),MotorKv,""),OilPct)')
+    # an empty optional cell goes in as "" (the default): LibreOffice would pass an empty cell as 0
     ws[f"A{r}"] = ArrayFormula(f"A{r}:O{r + 1}", formula)
     w.define("PumpFit", f"$A${r}:$O${r + 1}")
     w.row = r + 2
