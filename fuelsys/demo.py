@@ -87,7 +87,9 @@ PUMP = {
     "head_m": 0.1,                # injectors above the tank [m]
     "g_load": 3.0,                # manoeuvre load factor [-]
     "margin_pct": 15.0,           # margin on the pressure needed [%]
-    "battery_v": 7.4,             # battery voltage under load [V]
+    "battery_v": 7.0,             # battery at its cut-off, under load [V] (2 cells at 3.5 V)
+    "battery_full_v": 8.2,        # battery fully charged, under load [V]
+    "motor_start_v": 0.8,         # lowest voltage at which the motor starts turning the pump [V]
     "winding_ohm": 0.8,           # motor winding resistance measured across its terminals [Ω]
     "kv_rpm_per_v": None,         # motor speed constant [rpm/V]; None: not known
     # bench test points: flow [g/min], outlet pressure [bar gauge], volts [V], fuel temperature [°C]

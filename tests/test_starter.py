@@ -386,9 +386,9 @@ def test_demo_never_overwrites_a_book_someone_edited(tmp_path, monkeypatch):
 
 # -- the operating envelope, coupled sheets, needle count, one-temperature pump test (issue 12) -----------
 def _table_after(ws, heading, n_rows):
-    """Rows of the table whose header row ("point" or "needle" in column A) follows ``heading``."""
+    """Rows of the table whose header row ("point", "needle" or "corner" in column A) follows ``heading``."""
     r = _find(ws, heading)
-    while ws.cell(r, 1).value not in ("point", "needle"):
+    while ws.cell(r, 1).value not in ("point", "needle", "corner"):
         r += 1
     return list(range(r + 1, r + 1 + n_rows))
 
@@ -519,7 +519,10 @@ def test_pump_tested_at_one_temperature_gives_voltages_on_both_days(built, tmp_p
     flows = true.flow(volts, bars * 1e5, fuel.dynamic_viscosity(t)) * fuel.density(t) * 6e4  # g/min
     wp = openpyxl.load_workbook(built)["Pump"]
     rows = _table_after(wp, "Bench test points of the pump", starter.PUMP_TEST_ROWS)
-    edits = {f"B{_find(wp, 'motor winding resistance (measured across its terminals; optional)')}": 0.8}
+    edits = {f"B{_find(wp, 'motor winding resistance (measured across its terminals; optional)')}": 0.8,
+             # and a battery too weak at cut-off for full power, a motor that needs 2 V to start (issue 14, item 5)
+             f"B{_find(wp, 'battery at its cut-off voltage, under load')}": 5.0,
+             f"B{_find(wp, 'motor starting voltage (lowest that turns the pump)')}": 2.0}
     for k, r in enumerate(rows):
         cells = (flows[k], bars[k], volts[k], 20.0) if k < 8 else (None,) * 4
         edits.update({f"{c}{r}": v for c, v in zip("BCDE", cells)})
@@ -538,3 +541,11 @@ def test_pump_tested_at_one_temperature_gives_voltages_on_both_days(built, tmp_p
         assert isinstance(ws[f"H{r}"].value, float), (r, ws[f"H{r}"].value)
     # the cold day's thicker fuel slips less but its pressure is higher: at full power it needs more volts
     assert ws[f"H{op[len(op) // 2 - 1]}"].value > ws[f"H{op[-1]}"].value
+    # PWM: duty = motor voltage / battery voltage (average output of a chopper, Mohan et al. 3rd ed. §7-5)
+    pwm = {ws.cell(r, 1).value: r for r in _table_after(ws, "Pump setting: motor voltage and PWM duty", 4)}
+    cold_full, hot_idle = pwm["cold day, full power"], pwm["hot day, idle"]
+    v_full = ws[f"B{cold_full}"].value
+    assert v_full == ws[f"H{op[len(op) // 2 - 1]}"].value
+    assert ws[f"D{cold_full}"].value == pytest.approx(v_full / 5.0 * 100, rel=1e-12)
+    assert ws[f"E{cold_full}"].value.startswith("fails: needs") and v_full > 5.0
+    assert ws[f"B{hot_idle}"].value < 2.0 and ws[f"E{hot_idle}"].value.startswith("marginal: below")

@@ -29,6 +29,7 @@ UNIT_FONT = Font(color="555555")
 THIN = Side(style="thin", color="B8C4CC")
 RULE = Border(bottom=THIN)
 WRAP = Alignment(wrap_text=True, vertical="top")
+TOP = Alignment(vertical="top")
 
 
 @dataclass
@@ -90,7 +91,7 @@ class SheetWriter:
               low=None, high=None, whole=False, comment: str | None = None) -> str:
         """An input row; returns its absolute cell reference ($B$n)."""
         r = self.row
-        self.ws.cell(r, 1, label)
+        self.ws.cell(r, 1, label).alignment = TOP
         c = self.ws.cell(r, 2, value)
         c.fill, c.font = INPUT_FILL, INPUT_FONT
         u = self.ws.cell(r, 3, unit)
@@ -110,7 +111,7 @@ class SheetWriter:
     def result(self, label: str, formula: str, unit: str, name: str | None = None,
                number_format: str | None = None) -> str:
         r = self.row
-        self.ws.cell(r, 1, label)
+        self.ws.cell(r, 1, label).alignment = TOP  # beside a tall (wrapped) value, the label stays at its top
         c = self.ws.cell(r, 2, formula)
         c.font, c.border = RESULT_FONT, RULE
         if number_format:

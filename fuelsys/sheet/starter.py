@@ -19,13 +19,14 @@ from pathlib import Path
 
 from openpyxl import Workbook
 from openpyxl.chart import BarChart, Reference, ScatterChart, Series
+from openpyxl.chart.shapes import GraphicalProperties
 from openpyxl.formatting.rule import FormulaRule
 from openpyxl.styles import Alignment, Font, PatternFill
 from openpyxl.workbook.properties import CalcProperties
 from openpyxl.worksheet.formula import ArrayFormula
 
 from fuelsys.sheet import catalogue
-from fuelsys.sheet.layout import NOTE_FONT, SheetWriter, col
+from fuelsys.sheet.layout import NOTE_FONT, RULE, SheetWriter, col
 
 STARTER_PATH = Path(__file__).resolve().parents[2] / "workbook" / "fuelsys-starter.xlsx"
 #: the demo engine's filled book, kept in examples/
@@ -106,9 +107,13 @@ def sheet_functions(wb: Workbook) -> None:
         for j, v in enumerate(values, start=1):
             c = ws.cell(r, j, v)
             c.alignment = Alignment(wrap_text=True, vertical="top")
-        ws.row_dimensions[r].height = max(15, 15 * len(spec.args))
+        widths = (26, 44, 44, 70, 30, 50)
+        lines = max(sum(len(part) // max(1, int(wd * 1.05)) + 1 for part in str(v).split("\n"))
+                    for v, wd in zip(values, widths))
+        ws.row_dimensions[r].height = min(409, 15 * lines)
         w.row += 1
     ws.freeze_panes = "A4"
+    ws.print_title_rows = "3:3"
     ws.cell(2, 1).font = NOTE_FONT
 
 
@@ -159,6 +164,41 @@ def _corner_of(sheet, rng_value, rng_point, rng_day, how):
     return f'=INDEX({sheet}!{rng_day},{m})&", "&INDEX({sheet}!{rng_point},{m})'
 
 
+#: series colours from the colour-blind-safe palette of Okabe & Ito (2008): blue for the cold day, vermillion for
+#: the hot day (a cool/warm pair), then the palette's other hues
+COLD, HOT = "0072B2", "D55E00"
+PALETTE = ("009E73", "E69F00", "56B4E9", "CC79A7", "000000")
+
+
+def _colour(series, hex_rgb, marker="circle", width_emu=22000):
+    """Give a chart series one colour for its line and markers."""
+    series.graphicalProperties.line.solidFill = hex_rgb
+    series.graphicalProperties.line.width = width_emu
+    series.marker.symbol = marker
+    series.marker.graphicalProperties = GraphicalProperties(solidFill=hex_rgb)
+    series.marker.graphicalProperties.line.solidFill = hex_rgb
+    series.smooth = False
+
+
+def _code_header(ws, row, labels, first_col=1):
+    """Hide an array result's row of code names and put human headers (with units) in the row above it."""
+    ws.row_dimensions[row].hidden = True
+    for j, text in enumerate(labels, start=first_col):
+        c = ws.cell(row - 1, j, text)
+        c.font = Font(bold=True, color="2F3E4E")
+        c.alignment = Alignment(wrap_text=True, horizontal="center", vertical="center")
+        c.border = RULE
+    ws.row_dimensions[row - 1].height = 32
+
+
+def _formats(ws, first_row, last_row, formats, first_col=1):
+    """Number formats of an array result's columns (significant digits fit for each quantity)."""
+    for j, fmt in enumerate(formats, start=first_col):
+        if fmt:
+            for r in range(first_row, last_row + 1):
+                ws.cell(r, j).number_format = fmt
+
+
 def _add(bk, section, label, formula, unit="", corner="", fmt=None):
     bk.summary.append((section, label, formula, unit, corner, fmt))
 
@@ -166,7 +206,7 @@ def _add(bk, section, label, formula, unit="", corner="", fmt=None):
 def sheet_envelope(wb, bk):
     env = bk.s.ENVELOPE
     ws = wb.create_sheet("Envelope")
-    w = SheetWriter(wb, ws, label_width=44)
+    w = SheetWriter(wb, ws, label_width=58)
     w.heading("Operating envelope: the cold day and the hot day")
     w.note("Entered once: every sheet takes its corners from here. The engine's figures (Engine sheet) are "
            "carried to each day at the same speed and turbine inlet temperature; the needles, vaporiser tubes, "
@@ -205,7 +245,7 @@ def sheet_envelope(wb, bk):
 def sheet_engine(wb, bk):
     e = bk.s.ENGINE
     ws = wb.create_sheet("Engine")
-    w = SheetWriter(wb, ws)
+    w = SheetWriter(wb, ws, label_width=46)
     w.heading("Engine operating points")
     w.note(f"Example figures: {bk.s.ENGINE_NAME}, {bk.s.CLUB_NAME}. Replace the shaded cells with your engine's.")
     w.heading("Design point", sub=True)
@@ -285,7 +325,7 @@ def sheet_engine(wb, bk):
 def sheet_fuel(wb, bk):
     f = bk.s.FUEL
     ws = wb.create_sheet("Fuel")
-    w = SheetWriter(wb, ws)
+    w = SheetWriter(wb, ws, label_width=50)
     w.heading("Fuel")
     w.input("fuel", "FuelName", f["name"], "", choices=("kerosene",),
             comment="The built-in kerosene is a generic Jet A-1-type fuel. For your own fuel, fill in the table "
@@ -333,7 +373,7 @@ def sheet_fuel(wb, bk):
 def sheet_needles(wb, bk):
     n = bk.s.NEEDLES
     ws = wb.create_sheet("Needles")
-    w = SheetWriter(wb, ws)
+    w = SheetWriter(wb, ws, label_width=58)
     w.heading("Injector needles and ring manifold")
     w.input("needle gauge", "NeedleGauge", n["gauge"], "G (ISO 9626)", choices=tuple(range(14, 34)))
     w.input("wall class", "NeedleWall", n["wall"], "", choices=("normal", "thin", "extra-thin"))
@@ -446,6 +486,7 @@ def sheet_needles(wb, bk):
         formula = (f'=IF({rng_a}<=NeedleCount,FS_MANIFOLD_SPLIT({rng_b},NeedleLengthMm,{supply},{case},'
                    f'RingBoreMm,RingDiaMm,FuelName,{temp},OilPct),"")')
         ws[f"{fc}{ring_first}"] = ArrayFormula(f"{fc}{ring_first}:{fc}{ring_last}", formula)
+        _formats(ws, ring_first, ring_last, ("0.00",), first_col=c0)
         for k in range(MAX_NEEDLES):
             r = ring_first + k
             w.cell(r, c0 + 1, f'=IF(A{r}>NeedleCount,"",({fc}{r}/AVERAGE({fc}${ring_first}:{fc}${ring_last})-1)*100)',
@@ -487,6 +528,7 @@ def sheet_needles(wb, bk):
     counted = f"C{first_b}:C{last_b}"
     ws[f"F{first_b}"] = ArrayFormula(f"F{first_b}:G{last_b}",
                                      f'=IF(ISNUMBER({counted}),FS_ODD_NEEDLES({counted},5),"")')
+    _formats(ws, first_b, last_b, ("0.00",), first_col=6)
     bk.verdict_ranges.append(("Needles", f"G{first_b}:G{last_b}"))
     w.row = last_b + 1
     bores = f"E{first_b}:E{last_b}"
@@ -503,6 +545,10 @@ def sheet_needles(wb, bk):
     formula = (f"=FS_TOLERANCE_SPREAD(NeedleGauge,NeedleWall,NeedleCount,NeedleLengthMm,C{last},"
                f"FuelName,ColdRingC,BoreTolMm,LengthTolMm,2000,1,OilPct,TypicalBoreMm)")
     ws[f"A{r}"] = ArrayFormula(f"A{r}:C{r + 12}", formula)
+    for k, fmt in enumerate(("0.0000", "0.0000", "0.00", "0.00", "0.00", "0.00", "0.00", "0.00", "0.0", "0.0",
+                             "0.000", "0", None)):
+        if fmt:
+            ws.cell(r + k, 2).number_format = fmt
     _add(bk, "needles", "tolerance: spread between needles (CV) [%]", f"=Needles!$B${r + 4}", "%",
          "cold day, full power", "0.00")
     w.row = r + 13
@@ -514,10 +560,11 @@ def sheet_needles(wb, bk):
     chart.style = 13
     a, b = needle_chart
     xs = Reference(ws, min_col=1, min_row=a, max_row=b)
-    for colno, name in ((2, "cold day"), (3, "hot day")):
+    for colno, name, colour in ((2, "cold day", COLD), (3, "hot day", HOT)):
         ser = Series(Reference(ws, min_col=colno, min_row=a, max_row=b), xs, title=name)
-        ser.marker.symbol = "circle"
+        _colour(ser, colour)
         chart.series.append(ser)
+    chart.x_axis.scaling.min, chart.y_axis.scaling.min = 0, 0
     chart.height, chart.width = 8, 14
     ws.add_chart(chart, "L3")
 
@@ -525,12 +572,15 @@ def sheet_needles(wb, bk):
 def sheet_vaporiser(wb, bk):
     v = bk.s.VAPORISER
     ws = wb.create_sheet("Vaporiser")
-    w = SheetWriter(wb, ws, label_width=30)
+    w = SheetWriter(wb, ws, label_width=36)
     w.heading("Vaporiser tubes")
     w.note("One tube per needle, checked at every operating point on both days. Each tube's air is the engine's "
            "air times the tubes' share of the liner's effective area (Combustor sheet), shared between the tubes; "
            "the liner pressure drop that passes the engine's air follows from the openings' effective area "
            "(incompressible orifice flow, Lefebvre & Ballal, Gas Turbine Combustion 3rd ed. ch. 4).")
+    w.note("For every tube, once: the turbine oil never vaporises and leaves a residue on hot walls (inspect and "
+           "clean the tubes); fuel still liquid at the exit burns as droplets further down the liner. The "
+           "verdicts below give each point's own checks.")
     w.input("tube bore", "TubeBoreMm", v["tube_bore_mm"], "mm", low=1, high=40)
     w.input("heated length", "TubeLengthMm", v["heated_length_mm"], "mm", low=5, high=600)
     w.input("tube wall temperature", "WallC", v["wall_c"], "°C", low=0, high=1100)
@@ -622,10 +672,13 @@ def sheet_vaporiser(wb, bk):
     profiles = []
     for label, vr, day, i in corners:
         w.heading(f"Along the tube, {label}", sub=True)
+        w.skip()  # the human headers go here, over the function's row of code names (hidden)
         r = w.row
         formula = (f"=FS_VAPORISER_PROFILE(TubeBoreMm,TubeLengthMm,E{vr},C{vr},{_day(bk, day, 'D', i)},"
                    f"{_day(bk, day, 'E', i)},WallC,FuelName,OilPct,11,TubeShape)")
         ws[f"A{r}"] = ArrayFormula(f"A{r}:E{r + 11}", formula)
+        _code_header(ws, r, ["position [mm]", "gas [°C]", "wall [°C]", "vaporised [%]", "velocity [m/s]"])
+        _formats(ws, r + 1, r + 11, ("0", "0.0", "0", "0.0", "0.0"))
         profiles.append((label, r))
         w.row = r + 12
     for title, colno, axis in (("Vaporised fuel along the tube", 4, "vaporised [%]"),
@@ -635,11 +688,14 @@ def sheet_vaporiser(wb, bk):
         chart.x_axis.title = "position from the inlet [mm]"
         chart.y_axis.title = axis
         chart.style = 13
-        for label, r in profiles:
+        for (label, r), colour in zip(profiles, (COLD, HOT)):
             xs = Reference(ws, min_col=1, min_row=r + 1, max_row=r + 11)
             ser = Series(Reference(ws, min_col=colno, min_row=r + 1, max_row=r + 11), xs, title=label)
-            ser.marker.symbol = "circle"
+            _colour(ser, colour)
             chart.series.append(ser)
+        chart.x_axis.scaling.min = 0
+        if colno == 4:
+            chart.y_axis.scaling.min, chart.y_axis.scaling.max = 0, 100
         chart.height, chart.width = 7.5, 13
         ws.add_chart(chart, f"G{profiles[0][1] if colno == 4 else profiles[0][1] + 16}")
 
@@ -669,6 +725,7 @@ def sheet_combustor(wb, bk):
     ws[f"F{first}"] = ArrayFormula(f"F{first}:G{last}",
                                    f"=FS_ZONE_AIR(B{first}:B{last},C{first}:C{last},D{first}:D{last},"
                                    f"A{first}:A{last})")
+    _formats(ws, first, last, ("0.000",), first_col=7)
     w.row = last + 1
     # found by the zone names typed in column A (one row per zone), whose order FS_ZONE_AIR keeps
     share = f"INDEX($G${first}:$G${last},MATCH(\"{{}}\",$A${first}:$A${last},0))"
@@ -719,6 +776,8 @@ def sheet_combustor(wb, bk):
     bars.add_data(Reference(ws, min_col=7, min_row=first, max_row=last), titles_from_data=False)
     bars.set_categories(Reference(ws, min_col=6, min_row=first, max_row=last))
     bars.legend = None
+    bars.y_axis.scaling.min = 0
+    bars.series[0].graphicalProperties.solidFill = COLD
     bars.height, bars.width = 7, 11
     ws.add_chart(bars, "M3")
     temps = ScatterChart()
@@ -728,10 +787,11 @@ def sheet_combustor(wb, bk):
     temps.style = 13
     speeds = Reference(wb["Engine"], min_col=2, min_row=bk.op_rows[0], max_row=bk.op_rows[-1])
     rows = bk.comb_rows["cold"]
-    for colno, name in ((5, "primary flame"), (7, "secondary zone"), (8, "exit")):
+    for (colno, name), colour in zip(((5, "primary flame"), (7, "secondary zone"), (8, "exit")), PALETTE):
         ser = Series(Reference(ws, min_col=colno, min_row=rows[0], max_row=rows[-1]), speeds, title=name)
-        ser.marker.symbol = "circle"
+        _colour(ser, colour)
         temps.series.append(ser)
+    temps.x_axis.scaling.min, temps.y_axis.scaling.min = 0, 0
     temps.height, temps.width = 8, 14
     ws.add_chart(temps, "M18")
 
@@ -739,7 +799,7 @@ def sheet_combustor(wb, bk):
 def sheet_pump(wb, bk):
     p = bk.s.PUMP
     ws = wb.create_sheet("Pump")
-    w = SheetWriter(wb, ws)
+    w = SheetWriter(wb, ws, label_width=52)
     w.heading("Fuel lines and pump")
     w.input("line bore", "LineBoreMm", p["line_bore_mm"], "mm", low=0.5, high=20)
     w.input("line length", "LineLengthM", p["line_length_m"], "m", low=0.01, high=20)
@@ -747,7 +807,11 @@ def sheet_pump(wb, bk):
     w.input("injectors above the tank", "HeadM", p["head_m"], "m", low=-5, high=5)
     w.input("manoeuvre load factor", "GLoad", p["g_load"], "g", low=0, high=20)
     w.input("margin on the pressure needed", "MarginPct", p["margin_pct"], "%", low=0, high=200)
-    w.input("battery voltage under load", "BatteryV", p["battery_v"], "V", low=1, high=60)
+    w.input("battery at its cut-off voltage, under load", "BatteryV", p["battery_v"], "V", low=1, high=60)
+    w.input("battery fully charged, under load", "BatteryFullV", p.get("battery_full_v", p["battery_v"]), "V",
+            low=1, high=60)
+    w.input("motor starting voltage (lowest that turns the pump)", "MotorStartV", p.get("motor_start_v", 0.5), "V",
+            low=0, high=60)
     w.input("motor winding resistance (measured across its terminals; optional)", "WindingOhm", p.get("winding_ohm"),
             "Ω", low=0, high=100,
             comment="With it, a bench test at one fuel temperature gives the voltages at the envelope's "
@@ -772,12 +836,21 @@ def sheet_pump(wb, bk):
     last = first + PUMP_TEST_ROWS - 1
     w.row = last + 1
     w.heading("Pump fit", sub=True)
+    w.skip()  # human headers over the fit's row of labels (kept, hidden: the pump functions read them)
     r = w.row
     formula = (f"=FS_PUMP_FIT(B{first}:B{last},C{first}:C{last},D{first}:D{last},FuelName,E{first}:E{last},"
                f'IF(ISNUMBER(WindingOhm),WindingOhm,""),IF(ISNUMBER(MotorKv),MotorKv,""),OilPct)')
     # an empty optional cell goes in as "" (the default): LibreOffice would pass an empty cell as 0
     ws[f"A{r}"] = ArrayFormula(f"A{r}:O{r + 1}", formula)
     w.define("PumpFit", f"$A${r}:$O${r + 1}")
+    _code_header(ws, r, ["flow per volt [mL/min/V]", "winding [Ω]", "friction current [A]", "slip [mm³]",
+                         "intercept [V]", "pressure term [V/bar]", "fit viscosity [mPa·s]", "motor k [mN·m/A]",
+                         "displacement [mL/rev]", "RMS error [V]", "R² [-]", "condition [-]", "points",
+                         "lowest tested [V]", "highest tested [V]"])
+    _formats(ws, r + 1, r + 1, ("0.00", "0.000", "0.000", "0.00E+00", "0.000", "0.0000", "0.000", "0.00", "0.000",
+                                "0.000", "0.00000", "0.0", "0", "0.0", "0.0"))
+    for j in range(1, 16):
+        ws.cell(r + 1, j).alignment = Alignment(horizontal="right", wrap_text=True, vertical="top")
     w.row = r + 2
     w.heading("Along the operating line, both days", sub=True)
     w.note("Line losses, pressure needed and voltage at the fuel's temperature at the pump (Envelope sheet); "
@@ -812,9 +885,31 @@ def sheet_pump(wb, bk):
     w.result("most voltage needed", f"=MAX({rng['H']})", "V", name="PumpVoltsMax", number_format="0.00")
     w.result("  at", f'=INDEX({rng["B"]},{mx})&", "&INDEX({rng["A"]},{mx})', "", name="PumpVoltsCorner")
     w.result("  headroom there", f"=INDEX({rng['I']},{mx})", "V", number_format="0.00")
+    r_head = w.row - 1
     w.result("  check there", f"=INDEX({rng['J']},{mx})", "")
     bk.verdict_ranges.append(("Pump", f"B{w.row - 1}"))
     cold_idle, hot_idle = bk.pump_rows["cold"][0], bk.pump_rows["hot"][0]
+
+    w.heading("Pump setting: motor voltage and PWM duty", sub=True)
+    w.note("A PWM controller gives the motor the battery's voltage times the duty (average output of a chopper: "
+           "Mohan, Undeland & Robbins, Power Electronics 3rd ed. §7-5). The duty is shown for a charged battery "
+           "and at its cut-off; more than 100 % cannot be given, and below the motor's starting voltage the pump "
+           "may stall at the start or stop at idle.")
+    w.header_row(["corner", "motor voltage [V]", "duty, charged [%]", "duty, at cut-off [%]", "check"])
+    pwm_first = w.row
+    pwm = {}
+    for day, label, _ in DAYS:
+        for i, point in ((0, "idle"), (bk.points - 1, "full power")):
+            r = w.row
+            pwm[(day, i)] = r
+            w.cell(r, 1, f"{label}, {point}")
+            w.cell(r, 2, f"=H{bk.pump_rows[day][i]}", number_format="0.00")
+            w.cell(r, 3, f'=IF(ISNUMBER(B{r}),B{r}/BatteryFullV*100,"")', number_format="0")
+            w.cell(r, 4, f'=IF(ISNUMBER(B{r}),B{r}/BatteryV*100,"")', number_format="0")
+            w.cell(r, 5, f'=IF(NOT(ISNUMBER(B{r})),B{r},IF(D{r}>100,"fails: needs "&ROUND(D{r},0)&" % duty at '
+                         f'cut-off",IF(B{r}<MotorStartV,"marginal: below the motor\'s starting voltage","ok")))')
+            w.row += 1
+    bk.verdict_ranges.append(("Pump", f"E{pwm_first}:E{w.row - 1}"))
     _add(bk, "pump", "pump outlet needed, highest [bar gauge]", f"=MAX(Pump!{rng['G']})", "bar gauge",
          _corner_of("Pump", rng["G"], rng["A"], rng["B"], "MAX"), "0.000")
     _add(bk, "pump", "pump outlet needed at idle, cold day [bar gauge]", f"=Pump!$G${cold_idle}", "bar gauge",
@@ -823,9 +918,16 @@ def sheet_pump(wb, bk):
          "hot day, idle", "0.000")
     _add(bk, "pump", "pump volts, most needed [V]", "=PumpVoltsMax", "V", "=PumpVoltsCorner", "0.00")
     _add(bk, "pump", "pump volts at idle, hot day [V]", f"=Pump!$H${hot_idle}", "V", "hot day, idle", "0.00")
-    _add(bk, "pump", "battery headroom at the most voltage [V]", f"=Pump!$B${w.row - 2}", "V", "=PumpVoltsCorner",
+    _add(bk, "pump", "battery headroom at the most voltage [V]", f"=Pump!$B${r_head}", "V", "=PumpVoltsCorner",
          "0.00")
-    _add(bk, "pump", "pump check at the most voltage", f"=Pump!$B${w.row - 1}", "", "=PumpVoltsCorner")
+    _add(bk, "pump", "pump check at the most voltage", f"=Pump!$B${r_head + 1}", "", "=PumpVoltsCorner")
+    _add(bk, "pump", "PWM duty at full power, cold day, battery at cut-off [%]", f"=Pump!$D${pwm[('cold', bk.points - 1)]}",
+         "%", "cold day, full power", "0")
+    _add(bk, "pump", "PWM duty at idle, hot day, battery charged [%]", f"=Pump!$C${pwm[('hot', 0)]}", "%",
+         "hot day, idle", "0")
+    _add(bk, "pump", "PWM check at full power, cold day", f"=Pump!$E${pwm[('cold', bk.points - 1)]}", "",
+         "cold day, full power")
+    _add(bk, "pump", "PWM check at idle, hot day", f"=Pump!$E${pwm[('hot', 0)]}", "", "hot day, idle")
 
     w.heading("Pump curves at several voltages, cold day (for the chart)", sub=True)
     volts = (3.0, 5.0, 7.0, 9.0)
@@ -844,15 +946,17 @@ def sheet_pump(wb, bk):
     chart.y_axis.title = "pump outlet [bar gauge]"
     chart.style = 13
     ys = Reference(ws, min_col=1, min_row=c_first, max_row=c_last)
-    for j, v in enumerate(volts, start=2):
+    for (j, v), colour in zip(enumerate(volts, start=2), PALETTE):
         ser = Series(ys, Reference(ws, min_col=j, min_row=c_first, max_row=c_last), title=f"pump at {v:g} V")
+        _colour(ser, colour, marker="none")
         chart.series.append(ser)
     cold = bk.pump_rows["cold"]
     need = Series(Reference(ws, min_col=7, min_row=cold[0], max_row=cold[-1]),
                   Reference(ws, min_col=3, min_row=cold[0], max_row=cold[-1]), title="system need")
-    need.marker.symbol = "diamond"
+    _colour(need, COLD, marker="diamond")
     need.marker.size = 8
     chart.series.append(need)
+    chart.x_axis.scaling.min, chart.y_axis.scaling.min = 0, 0
     chart.x_axis.number_format = "0"
     chart.x_axis.majorUnit = 50
     chart.height, chart.width = 11, 20
@@ -862,7 +966,7 @@ def sheet_pump(wb, bk):
 def sheet_gas(wb, bk):
     g = bk.s.GAS
     ws = wb.create_sheet("Gas start")
-    w = SheetWriter(wb, ws)
+    w = SheetWriter(wb, ws, label_width=58)
     w.heading("Gas start")
     w.note("Checked with the cold canister (Envelope sheet): the least pressure it gives.")
     w.input("gas", "GasName", g["gas"], "", choices=("propane", "lpg-70-30", "lpg-60-40", "butane", "isobutane"))
@@ -886,9 +990,13 @@ def sheet_gas(wb, bk):
     w.input("liquid gas in the canister", "GasLiquidG", g["liquid_g"], "g", low=1, high=20000)
     w.input("empty canister mass", "GasShellG", g["shell_g"], "g", low=0, high=20000)
     w.input("length of the run", "GasMinutes", g["flow_minutes"], "min", low=0.1, high=600)
+    w.skip()  # human headers over the table's row of code names (hidden)
     r = w.row
     formula = "=FS_CANISTER_CHILL(GasName,GasLiquidG,GasShellG,GasFlow,GasMinutes,CanisterC,\"steel\",JetUpBar,11)"
     ws[f"A{r}"] = ArrayFormula(f"A{r}:F{r + 11}", formula)
+    _code_header(ws, r, ["time [min]", "canister [°C]", "pressure [bar abs]", "liquid left [g]",
+                         "heat from the air [W]", "pressure enough?"])
+    _formats(ws, r + 1, r + 11, ("0.0", "0.0", "0.00", "0.0", "0.00"))
     bk.verdict_ranges.append(("Gas start", f"F{r + 1}:F{r + 11}"))
     _add(bk, "gas", "canister pressure at the end of the run [bar abs]", f"='Gas start'!$C${r + 11}", "bar abs",
          "cold canister", "0.00")
@@ -900,8 +1008,9 @@ def sheet_gas(wb, bk):
     chart.style = 13
     ser = Series(Reference(ws, min_col=3, min_row=r + 1, max_row=r + 11),
                  Reference(ws, min_col=1, min_row=r + 1, max_row=r + 11), title="canister")
-    ser.marker.symbol = "circle"
+    _colour(ser, COLD)
     chart.series.append(ser)
+    chart.x_axis.scaling.min, chart.y_axis.scaling.min = 0, 0
     chart.height, chart.width = 7.5, 13
     ws.add_chart(chart, "H3")
 
@@ -923,6 +1032,7 @@ def sheet_summary(wb, bk):
         r = w.row
         w.result(label, formula, unit, number_format=fmt)
         ws[f"B{r}"].alignment = Alignment(wrap_text=True, vertical="top", horizontal="left")
+        ws[f"C{r}"].alignment = Alignment(vertical="top")
         c = ws.cell(r, 4, corner)
         c.alignment = Alignment(wrap_text=True, vertical="top")
         if "verdict" in label or "check" in label:
@@ -943,9 +1053,10 @@ def _show_axes(wb) -> None:
 
 
 def _verdict_formatting(wb, bk):
-    green = PatternFill("solid", fgColor="D5EDD9")
-    amber = PatternFill("solid", fgColor="FBE8C8")
-    red = PatternFill("solid", fgColor="F4CCCC")
+    # verdict fills apart from the inputs' pale green-grey, in the colour-blind-safe hues (Okabe & Ito 2008)
+    green = PatternFill("solid", fgColor="CFE3F3")   # ok: pale blue
+    amber = PatternFill("solid", fgColor="FBE7A1")   # marginal: pale yellow
+    red = PatternFill("solid", fgColor="F5C6AE")     # fails: pale vermillion
     for sheet, rng in bk.verdict_ranges:
         ws = wb[sheet]
         top_left = rng.split(":")[0]
