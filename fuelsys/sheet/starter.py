@@ -143,6 +143,7 @@ class _Book:
         self.day_rows = {}         # Engine sheet rows of the operating points on each day of the envelope
         self.summary = []          # (section, label, formula, unit, corner, number format) rows of the Summary
         self.verdict_ranges = []
+        self.notes_ranges = []     # FS_NOTES cells, highlighted when not "ok"
 
 
 def _eng(bk, col_letter, i):
@@ -197,6 +198,18 @@ def _formats(ws, first_row, last_row, formats, first_col=1):
         if fmt:
             for r in range(first_row, last_row + 1):
                 ws.cell(r, j).number_format = fmt
+
+
+def _notes(w, bk, label, function, args):
+    """A notes cell: FS_NOTES of one call ("ok", or each correlation used outside its range), highlighted if not ok."""
+    r = w.row
+    w.result(label, f'=FS_NOTES("{function}",{args})', "")
+    c = w.ws.cell(r, 2)
+    c.alignment = Alignment(wrap_text=True, vertical="top", horizontal="left")
+    w.ws.merge_cells(start_row=r, start_column=2, end_row=r, end_column=8)
+    w.ws.row_dimensions[r].height = 30
+    bk.notes_ranges.append((w.ws.title, f"B{r}"))
+    return r
 
 
 def _add(bk, section, label, formula, unit="", corner="", fmt=None):
@@ -435,6 +448,10 @@ def sheet_needles(wb, bk):
     w.result("least needle drop (the distribution limit)", f"=MIN(C{first}:C{last},G{first}:G{last})", "bar",
              name="NeedleDpMinBar", number_format="0.000")
     w.result("  at", lo, "")
+    _notes(w, bk, "validity notes, cold day full power", "FS_NEEDLE_DP",
+           f"NeedleBoreMm,NeedleLengthMm,B{last},FuelName,ColdRingC,OilPct")
+    _notes(w, bk, "validity notes, hot day idle", "FS_NEEDLE_DP",
+           f"NeedleBoreMm,NeedleLengthMm,F{first},FuelName,HotRingC,OilPct")
     _add(bk, "needles", "needles", f"={chosen}")
     _add(bk, "needles", "bore used [mm]", "=NeedleBoreMm", "mm", "=BoreSource", "0.0000")
     _add(bk, "needles", "flow per needle at full power, cold day [g/min]", f"=Needles!$B${last}", "g/min",
@@ -444,11 +461,11 @@ def sheet_needles(wb, bk):
     _add(bk, "needles", "flow per needle at idle, hot day [mL/min]",
          f"=Needles!$F${first}/FS_DENSITY(FuelName,HotRingC,OilPct)*1000", "mL/min", "hot day, idle", "0.00")
     _add(bk, "needles", "needle supply, highest (pressure limit) [bar gauge]", "=NeedleSupplyMaxBar", "bar gauge",
-         f"=Needles!$B${w.row - 3}", "0.000")
+         f"=Needles!$B${w.row - 5}", "0.000")
     _add(bk, "needles", "needle Δp at full power, cold day [bar]", f"=Needles!$C${last}", "bar",
          "cold day, full power", "0.000")
     _add(bk, "needles", "needle Δp, least (distribution limit) [bar]", "=NeedleDpMinBar", "bar",
-         f"=Needles!$B${w.row - 1}", "0.000")
+         f"=Needles!$B${w.row - 3}", "0.000")
 
     w.heading("Flow against pressure drop (for the chart)", sub=True)
     w.header_row(["Δp [bar]", "flow cold [g/min]", "flow hot [g/min]"])
@@ -497,9 +514,12 @@ def sheet_needles(wb, bk):
              "=" + dev.format(c="D", a=ring_first, b=ring_last), "%", number_format="0.00")
     w.result("largest deviation from the mean, hot day idle",
              "=" + dev.format(c="F", a=ring_first, b=ring_last), "%", number_format="0.00")
-    _add(bk, "needles", "ring: largest needle deviation, cold day full power [%]", f"=Needles!$B${w.row - 2}", "%",
+    _notes(w, bk, "validity notes of the ring, cold day full power", "FS_MANIFOLD_SPLIT",
+           f"{rng_b},NeedleLengthMm,RingSupplyBar,{_day(bk, 'cold', 'C', -1)},RingBoreMm,RingDiaMm,FuelName,"
+           f"ColdRingC,OilPct")
+    _add(bk, "needles", "ring: largest needle deviation, cold day full power [%]", f"=Needles!$B${w.row - 3}", "%",
          "cold day, full power", "0.00")
-    _add(bk, "needles", "ring: largest needle deviation, hot day idle [%]", f"=Needles!$B${w.row - 1}", "%",
+    _add(bk, "needles", "ring: largest needle deviation, hot day idle [%]", f"=Needles!$B${w.row - 2}", "%",
          "hot day, idle", "0.00")
 
     w.heading("Bench test of the needles", sub=True)
@@ -630,6 +650,9 @@ def sheet_vaporiser(wb, bk):
     w.result("  at", f'=INDEX({days},{m})&", "&INDEX({pts},{m})', "", name="VapWorstCorner")
     w.result("  vaporised there", f"=INDEX($G${first}:$G${last},{m})", "%", number_format="0.0")
     w.result("  verdict there", f"=INDEX(${verdict_col}${first}:${verdict_col}${last},{m})", "")
+    ws.cell(w.row - 1, 2).alignment = Alignment(wrap_text=True, vertical="top", horizontal="left")
+    ws.merge_cells(start_row=w.row - 1, start_column=2, end_row=w.row - 1, end_column=9)
+    ws.row_dimensions[w.row - 1].height = 64
     bk.verdict_ranges.append(("Vaporiser", f"B{w.row - 1}"))
     w.result("liner Δp, least and most over both days",
              f'=ROUND(MIN(D{first}:D{last}),2)&" to "&ROUND(MAX(D{first}:D{last}),2)', "% of case abs")
@@ -667,6 +690,15 @@ def sheet_vaporiser(wb, bk):
                          f"{_day(bk, day, 'E', i)},WallC,FuelName,OilPct,\"{item}\",TubeShape)", number_format=fmt)
         w.cell(r, 4, unit)
         w.row += 1
+    r = w.row
+    w.cell(r, 1, "validity notes").alignment = Alignment(vertical="top")
+    for j, (_, vr, day, i) in enumerate(corners, start=2):
+        c = w.cell(r, j, f'=FS_NOTES("FS_VAPORISER",TubeBoreMm,TubeLengthMm,E{vr},C{vr},{_day(bk, day, "D", i)},'
+                         f'{_day(bk, day, "E", i)},WallC,FuelName,OilPct,"verdict",TubeShape)')
+        c.alignment = Alignment(wrap_text=True, vertical="top")
+        bk.notes_ranges.append(("Vaporiser", f"{col(j)}{r}"))
+    ws.row_dimensions[r].height = 45
+    w.row += 1
 
     # profiles along the tube at the two corners
     profiles = []
@@ -765,6 +797,8 @@ def sheet_combustor(wb, bk):
         bk.comb_rows[day] = rows
     op_last = w.row - 1
     full_cold = bk.comb_rows["cold"][-1]
+    _notes(w, bk, "validity notes, primary flame at cold-day full power", "FS_FLAME_TEMP",
+           f"FuelName,D{full_cold},{_day(bk, 'cold', 'E', -1)},{_day(bk, 'cold', 'D', -1)}")
     _add(bk, "combustor", "primary flame at full power, cold day [°C]", f"=Combustor!$E${full_cold}", "°C",
          "cold day, full power", "0")
     _add(bk, "combustor", "primary φ at full power, cold day", f"=Combustor!$D${full_cold}", "-",
@@ -888,6 +922,9 @@ def sheet_pump(wb, bk):
     r_head = w.row - 1
     w.result("  check there", f"=INDEX({rng['J']},{mx})", "")
     bk.verdict_ranges.append(("Pump", f"B{w.row - 1}"))
+    full = bk.pump_rows["cold"][-1]
+    _notes(w, bk, "validity notes, cold day full power", "FS_PUMP_VOLTS",
+           f"PumpFit,C{full},G{full},FuelName,ColdPumpC,OilPct")
     cold_idle, hot_idle = bk.pump_rows["cold"][0], bk.pump_rows["hot"][0]
 
     w.heading("Pump setting: motor voltage and PWM duty", sub=True)
@@ -986,6 +1023,8 @@ def sheet_gas(wb, bk):
     _add(bk, "gas", "gas flow at the start [g/min]", f"='Gas start'!$B${w.row - 2}", "g/min", "cold canister",
          "0.00")
     _add(bk, "gas", "gas start check", f"='Gas start'!$B${w.row - 1}", "", "cold canister")
+    _notes(w, bk, "validity notes of the gas flow", "FS_GAS_JET_FLOW",
+           f"JetBoreMm,JetLengthMm,JetUpBar,{_day(bk, 'cold', 'D', 0)},GasName,CanisterC")
     w.heading("Canister over a run", sub=True)
     w.input("liquid gas in the canister", "GasLiquidG", g["liquid_g"], "g", low=1, high=20000)
     w.input("empty canister mass", "GasShellG", g["shell_g"], "g", low=0, high=20000)
@@ -1052,6 +1091,14 @@ def _show_axes(wb) -> None:
             chart.x_axis.axPos = "b"  # the horizontal axis along the bottom (openpyxl's default says left)
 
 
+def _notes_formatting(wb, bk):
+    """A notes cell that is not "ok" shows in the marginal colour."""
+    amber = PatternFill("solid", fgColor="FBE7A1")
+    for sheet, ref in bk.notes_ranges:
+        wb[sheet].conditional_formatting.add(
+            ref, FormulaRule(formula=[f'AND(LEN({ref})>0,LEFT({ref},2)<>"ok")'], fill=amber, stopIfTrue=True))
+
+
 def _verdict_formatting(wb, bk):
     # verdict fills apart from the inputs' pale green-grey, in the colour-blind-safe hues (Okabe & Ito 2008)
     green = PatternFill("solid", fgColor="CFE3F3")   # ok: pale blue
@@ -1088,6 +1135,7 @@ def build(path: Path | str = STARTER_PATH, compute: bool = True, scenario=None, 
         section(wb, bk)
     sheet_functions(wb)
     _verdict_formatting(wb, bk)
+    _notes_formatting(wb, bk)
     _show_axes(wb)
     # the book carries computed values: ask spreadsheet programs to show them rather than recompute on
     # open (a program without the fuelsys functions would replace every one with #NAME?); calcId is
