@@ -474,6 +474,30 @@ COMBINED_NOTE_CLOSE_TEMPERATURES = (
     "dp_v_per_bar at the mean test viscosity; give winding_ohm for other temperatures")
 
 
+def _fit_scales(x0, names, phi0, q, p, v, m, lumped):
+    """Scales that bring the fit's unknowns to order one [-] (see :func:`_solve_fit`)."""
+    # scale to order one; keep start strictly inside the bounds.  A coefficient that starts at (or near)
+    # zero gets the scale of a term worth a few per cent of the voltages, never its own near-zero start
+    # (a start of 1e-17 V would shrink its Jacobian column to nothing: a spurious infinite condition number)
+    v_typ = float(np.mean(np.abs(v)))
+    scale = np.where(x0 > 0, x0, 1.0)
+    scale[0] = phi0
+    if lumped:
+        scale[1] = max(x0[1], 0.05 * v_typ)
+        scale[2] = max(x0[2], 0.05 * v_typ / max(np.mean(np.abs(p)), 1.0))
+    if not lumped:
+        k_slip = names.index("slip")
+        # order of a slip worth 10 % of the flow at the mean pressure
+        scale[k_slip] = max(x0[k_slip], 0.1 * np.mean(q) * np.mean(m) / max(np.mean(np.abs(p)), 1.0))
+    if "winding_ohm" in names:
+        k_r = names.index("winding_ohm")
+        scale[k_r] = max(x0[k_r], 0.1 * np.mean(v) / max(np.mean(np.abs(p)) * phi0, 1e-30))
+    if "friction_current" in names:
+        k_i = names.index("friction_current")
+        scale[k_i] = max(x0[k_i], 0.05 * np.mean(np.abs(p)) * phi0 + 1e-3)
+    return scale
+
+
 def _solve_fit(q, p, v, m, r_fix, lumped, motor_k):
     """Least-squares solve of :func:`fit_pump` for one model form (lumped, R known, or free) [-]."""
     from scipy.optimize import least_squares
@@ -528,25 +552,7 @@ def _solve_fit(q, p, v, m, r_fix, lumped, motor_k):
         def model(x):
             return x[1] * x[2] + q / x[0] + x[1] * x[0] * p + x[3] * p / (x[0] * m)
 
-    # scale to order one; keep start strictly inside the bounds.  A coefficient that starts at (or near)
-    # zero gets the scale of a term worth a few per cent of the voltages, never its own near-zero start
-    # (a start of 1e-17 V would shrink its Jacobian column to nothing: a spurious infinite condition number)
-    v_typ = float(np.mean(np.abs(v)))
-    scale = np.where(x0 > 0, x0, 1.0)
-    scale[0] = phi0
-    if lumped:
-        scale[1] = max(x0[1], 0.05 * v_typ)
-        scale[2] = max(x0[2], 0.05 * v_typ / max(np.mean(np.abs(p)), 1.0))
-    if not lumped:
-        k_slip = names.index("slip")
-        # order of a slip worth 10 % of the flow at the mean pressure
-        scale[k_slip] = max(x0[k_slip], 0.1 * np.mean(q) * np.mean(m) / max(np.mean(np.abs(p)), 1.0))
-    if "winding_ohm" in names:
-        k_r = names.index("winding_ohm")
-        scale[k_r] = max(x0[k_r], 0.1 * np.mean(v) / max(np.mean(np.abs(p)) * phi0, 1e-30))
-    if "friction_current" in names:
-        k_i = names.index("friction_current")
-        scale[k_i] = max(x0[k_i], 0.05 * np.mean(np.abs(p)) * phi0 + 1e-3)
+    scale = _fit_scales(x0, names, phi0, q, p, v, m, lumped)
     z0 = np.clip(x0 / scale, 1e-6, None)
     z0[0] = 1.0
 

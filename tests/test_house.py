@@ -70,7 +70,6 @@ BIG_FUNCTIONS = {
     "fuelsys/gas_start.py:canister_chill": "12 parameters: canister, gas and run description (physics helper's file)",
     "fuelsys/fuels/petroleum.py:PetroleumFuel.__init__": "11 parameters: the fuel's data sheet; follows the "
                                                          "petroleum split (physics helper's file)",
-    "fuelsys/pump.py:fit_pump": "131 lines of code: fit, checks and flags in one function (book helper's file)",
 }
 
 

@@ -19,14 +19,13 @@ from pathlib import Path
 
 from openpyxl import Workbook
 from openpyxl.chart import BarChart, Reference, ScatterChart, Series
-from openpyxl.chart.shapes import GraphicalProperties
 from openpyxl.formatting.rule import FormulaRule
 from openpyxl.styles import Alignment, Font, PatternFill
 from openpyxl.workbook.properties import CalcProperties
 from openpyxl.worksheet.formula import ArrayFormula
 
 from fuelsys.sheet import catalogue
-from fuelsys.sheet.layout import NOTE_FONT, RULE, SheetWriter, col
+from fuelsys.sheet.layout import NOTE_FONT, SheetWriter, col
 
 STARTER_PATH = Path(__file__).resolve().parents[2] / "workbook" / "fuelsys-starter.xlsx"
 #: the demo engine's filled book, kept in examples/
@@ -121,99 +120,10 @@ def sheet_functions(wb: Workbook) -> None:
 # ---------------------------------------------------------------------------
 # the sheets of the sizing chain
 
-#: rows of every per-needle table (ring manifold, bench test): the needle count may be anything up to this
-MAX_NEEDLES = 16
-#: rows of the pump's bench-test table
-PUMP_TEST_ROWS = 12
-#: the two days of the envelope: key, label, prefix of the defined names
-DAYS = (("cold", "cold day", "Cold"), ("hot", "hot day", "Hot"))
-#: discharge coefficient the Combustor sheet gives a hole whose Cd cell is empty (the catalogue's default)
-_CD_PLAIN = 0.625
-#: specific gas constant of dry air [J/(kg K)] (CIPM-2007 dry air, 28.9647 g/mol; 8.314462618 J/(mol K))
-_R_AIR = 287.05
-
-
-class _Book:
-    """Where things landed, so later sheets can refer to earlier ones."""
-
-    def __init__(self, scenario):
-        self.s = scenario
-        self.points = len(scenario.ENGINE["points"])
-        self.op_rows = []          # Engine sheet rows of the operating points (the figures as entered)
-        self.day_rows = {}         # Engine sheet rows of the operating points on each day of the envelope
-        self.summary = []          # (section, label, formula, unit, corner, number format) rows of the Summary
-        self.verdict_ranges = []
-        self.notes_ranges = []     # FS_NOTES cells, highlighted when not "ok"
-
-
-def _eng(bk, col_letter, i):
-    return f"Engine!${col_letter}${bk.op_rows[i]}"
-
-
-def _day(bk, day, col_letter, i):
-    """A cell of the Engine sheet's table for ``day`` ("cold" or "hot") at operating point ``i``."""
-    return f"Engine!${col_letter}${bk.day_rows[day][i]}"
-
-
-def _point_label(bk, i):
-    return "idle" if i == 0 else "full power" if i == bk.points - 1 else f"point {i + 1}"
-
-
-def _corner_of(sheet, rng_value, rng_point, rng_day, how):
-    """Formula naming the row where ``rng_value`` is largest (how="MAX") or smallest ("MIN"): "day, point"."""
-    m = f"MATCH({how}({sheet}!{rng_value}),{sheet}!{rng_value},0)"
-    return f'=INDEX({sheet}!{rng_day},{m})&", "&INDEX({sheet}!{rng_point},{m})'
-
-
-#: series colours from the colour-blind-safe palette of Okabe & Ito (2008): blue for the cold day, vermillion for
-#: the hot day (a cool/warm pair), then the palette's other hues
-COLD, HOT = "0072B2", "D55E00"
-PALETTE = ("009E73", "E69F00", "56B4E9", "CC79A7", "000000")
-
-
-def _colour(series, hex_rgb, marker="circle", width_emu=22000):
-    """Give a chart series one colour for its line and markers."""
-    series.graphicalProperties.line.solidFill = hex_rgb
-    series.graphicalProperties.line.width = width_emu
-    series.marker.symbol = marker
-    series.marker.graphicalProperties = GraphicalProperties(solidFill=hex_rgb)
-    series.marker.graphicalProperties.line.solidFill = hex_rgb
-    series.smooth = False
-
-
-def _code_header(ws, row, labels, first_col=1):
-    """Hide an array result's row of code names and put human headers (with units) in the row above it."""
-    ws.row_dimensions[row].hidden = True
-    for j, text in enumerate(labels, start=first_col):
-        c = ws.cell(row - 1, j, text)
-        c.font = Font(bold=True, color="2F3E4E")
-        c.alignment = Alignment(wrap_text=True, horizontal="center", vertical="center")
-        c.border = RULE
-    ws.row_dimensions[row - 1].height = 32
-
-
-def _formats(ws, first_row, last_row, formats, first_col=1):
-    """Number formats of an array result's columns (significant digits fit for each quantity)."""
-    for j, fmt in enumerate(formats, start=first_col):
-        if fmt:
-            for r in range(first_row, last_row + 1):
-                ws.cell(r, j).number_format = fmt
-
-
-def _notes(w, bk, label, function, args):
-    """A notes cell: FS_NOTES of one call ("ok", or each correlation used outside its range), highlighted if not ok."""
-    r = w.row
-    w.result(label, f'=FS_NOTES("{function}",{args})', "")
-    c = w.ws.cell(r, 2)
-    c.alignment = Alignment(wrap_text=True, vertical="top", horizontal="left")
-    w.ws.merge_cells(start_row=r, start_column=2, end_row=r, end_column=8)
-    w.ws.row_dimensions[r].height = 30
-    bk.notes_ranges.append((w.ws.title, f"B{r}"))
-    return r
-
-
-def _add(bk, section, label, formula, unit="", corner="", fmt=None):
-    bk.summary.append((section, label, formula, unit, corner, fmt))
+from fuelsys.sheet.starter_parts import (  # noqa: E402  (shared with the pump sheets)
+    COLD, DAYS, HOT, MAX_NEEDLES, PALETTE, PUMP_TEST_ROWS, CD_PLAIN, R_AIR, BookLayout, add_summary, code_header,
+    colour_series, day_cell, engine_cell, column_formats, notes_cell)
+from fuelsys.sheet.starter_pump import sheet_gas, sheet_pump  # noqa: E402
 
 
 def sheet_envelope(wb, bk):
@@ -321,17 +231,17 @@ def sheet_engine(wb, bk):
             w.row += 1
         bk.day_rows[day] = rows
     ws.freeze_panes = "B3"
-    _add(bk, "engine", "fuel at full power, cold day [g/min]", f"={_day(bk, 'cold', 'G', -1)}", "g/min",
+    add_summary(bk, "engine", "fuel at full power, cold day [g/min]", f"={day_cell(bk, 'cold', 'G', -1)}", "g/min",
          "cold day, full power", "0.0")
-    _add(bk, "engine", "fuel at full power, cold day [mL/min]",
-         f"={_day(bk, 'cold', 'G', -1)}/FS_DENSITY(FuelName,ColdPumpC,OilPct)*1000", "mL/min",
+    add_summary(bk, "engine", "fuel at full power, cold day [mL/min]",
+         f"={day_cell(bk, 'cold', 'G', -1)}/FS_DENSITY(FuelName,ColdPumpC,OilPct)*1000", "mL/min",
          "cold day, full power (at the pump's fuel temperature)", "0.0")
-    _add(bk, "engine", "fuel at idle, hot day [g/min]", f"={_day(bk, 'hot', 'G', 0)}", "g/min", "hot day, idle",
+    add_summary(bk, "engine", "fuel at idle, hot day [g/min]", f"={day_cell(bk, 'hot', 'G', 0)}", "g/min", "hot day, idle",
          "0.0")
-    _add(bk, "engine", "fuel at idle, hot day [mL/min]",
-         f"={_day(bk, 'hot', 'G', 0)}/FS_DENSITY(FuelName,HotPumpC,OilPct)*1000", "mL/min",
+    add_summary(bk, "engine", "fuel at idle, hot day [mL/min]",
+         f"={day_cell(bk, 'hot', 'G', 0)}/FS_DENSITY(FuelName,HotPumpC,OilPct)*1000", "mL/min",
          "hot day, idle (at the pump's fuel temperature)", "0.0")
-    _add(bk, "engine", "case pressure at full power, cold day [bar gauge]", f"={_day(bk, 'cold', 'C', -1)}",
+    add_summary(bk, "engine", "case pressure at full power, cold day [bar gauge]", f"={day_cell(bk, 'cold', 'C', -1)}",
          "bar gauge", "cold day, full power", "0.000")
 
 
@@ -422,13 +332,13 @@ def sheet_needles(wb, bk):
     first = w.row
     for i in range(bk.points):
         r = w.row
-        w.cell(r, 1, f"={_eng(bk, 'A', i)}")
+        w.cell(r, 1, f"={engine_cell(bk, 'A', i)}")
         for c0, day, pre in ((2, "cold", "Cold"), (6, "hot", "Hot")):
             fl, dp, sup, re_ = (col(c0 + k) for k in range(4))
-            w.cell(r, c0, f"={_day(bk, day, 'H', i)}", number_format="0.00")
+            w.cell(r, c0, f"={day_cell(bk, day, 'H', i)}", number_format="0.00")
             w.cell(r, c0 + 1, f"=FS_NEEDLE_DP(NeedleBoreMm,NeedleLengthMm,{fl}{r},FuelName,{pre}RingC,OilPct)",
                    number_format="0.000")
-            w.cell(r, c0 + 2, f"={dp}{r}+{_day(bk, day, 'C', i)}", number_format="0.000")
+            w.cell(r, c0 + 2, f"={dp}{r}+{day_cell(bk, day, 'C', i)}", number_format="0.000")
             w.cell(r, c0 + 3, f"=FS_NEEDLE_REYNOLDS(NeedleBoreMm,{fl}{r},FuelName,{pre}RingC,OilPct)",
                    number_format="0")
         w.cell(r, 10, f"=FS_NEEDLE_VELOCITY(NeedleBoreMm,B{r},FuelName,ColdRingC,OilPct)", number_format="0.00")
@@ -448,25 +358,30 @@ def sheet_needles(wb, bk):
     w.result("least needle drop (the distribution limit)", f"=MIN(C{first}:C{last},G{first}:G{last})", "bar",
              name="NeedleDpMinBar", number_format="0.000")
     w.result("  at", lo, "")
-    _notes(w, bk, "validity notes, cold day full power", "FS_NEEDLE_DP",
+    notes_cell(w, bk, "validity notes, cold day full power", "FS_NEEDLE_DP",
            f"NeedleBoreMm,NeedleLengthMm,B{last},FuelName,ColdRingC,OilPct")
-    _notes(w, bk, "validity notes, hot day idle", "FS_NEEDLE_DP",
+    notes_cell(w, bk, "validity notes, hot day idle", "FS_NEEDLE_DP",
            f"NeedleBoreMm,NeedleLengthMm,F{first},FuelName,HotRingC,OilPct")
-    _add(bk, "needles", "needles", f"={chosen}")
-    _add(bk, "needles", "bore used [mm]", "=NeedleBoreMm", "mm", "=BoreSource", "0.0000")
-    _add(bk, "needles", "flow per needle at full power, cold day [g/min]", f"=Needles!$B${last}", "g/min",
+    add_summary(bk, "needles", "needles", f"={chosen}")
+    add_summary(bk, "needles", "bore used [mm]", "=NeedleBoreMm", "mm", "=BoreSource", "0.0000")
+    add_summary(bk, "needles", "flow per needle at full power, cold day [g/min]", f"=Needles!$B${last}", "g/min",
          "cold day, full power", "0.00")
-    _add(bk, "needles", "flow per needle at idle, hot day [g/min]", f"=Needles!$F${first}", "g/min",
+    add_summary(bk, "needles", "flow per needle at idle, hot day [g/min]", f"=Needles!$F${first}", "g/min",
          "hot day, idle", "0.00")
-    _add(bk, "needles", "flow per needle at idle, hot day [mL/min]",
+    add_summary(bk, "needles", "flow per needle at idle, hot day [mL/min]",
          f"=Needles!$F${first}/FS_DENSITY(FuelName,HotRingC,OilPct)*1000", "mL/min", "hot day, idle", "0.00")
-    _add(bk, "needles", "needle supply, highest (pressure limit) [bar gauge]", "=NeedleSupplyMaxBar", "bar gauge",
+    add_summary(bk, "needles", "needle supply, highest (pressure limit) [bar gauge]", "=NeedleSupplyMaxBar", "bar gauge",
          f"=Needles!$B${w.row - 5}", "0.000")
-    _add(bk, "needles", "needle Δp at full power, cold day [bar]", f"=Needles!$C${last}", "bar",
+    add_summary(bk, "needles", "needle Δp at full power, cold day [bar]", f"=Needles!$C${last}", "bar",
          "cold day, full power", "0.000")
-    _add(bk, "needles", "needle Δp, least (distribution limit) [bar]", "=NeedleDpMinBar", "bar",
+    add_summary(bk, "needles", "needle Δp, least (distribution limit) [bar]", "=NeedleDpMinBar", "bar",
          f"=Needles!$B${w.row - 3}", "0.000")
 
+    _needles_tables(ws, w, bk, n, first, last, r_bench_mean, r_source)
+
+
+def _needles_tables(ws, w, bk, n, first, last, r_bench_mean, r_source):
+    """The Needles sheet's chart table, ring manifold, bench test, tolerance study and chart."""
     w.heading("Flow against pressure drop (for the chart)", sub=True)
     w.header_row(["Δp [bar]", "flow cold [g/min]", "flow hot [g/min]"])
     chart_first = w.row
@@ -497,13 +412,13 @@ def sheet_needles(wb, bk):
     for k in range(MAX_NEEDLES):
         w.cell(ring_first + k, 1, k + 1)  # the bores (column B) are written once the bench rows are known
     rng_a, rng_b = f"A{ring_first}:A{ring_last}", f"B{ring_first}:B{ring_last}"
-    for c0, supply, case, temp in ((3, "RingSupplyBar", _day(bk, "cold", "C", -1), "ColdRingC"),
-                                   (5, "RingSupplyIdleBar", _day(bk, "hot", "C", 0), "HotRingC")):
+    for c0, supply, case, temp in ((3, "RingSupplyBar", day_cell(bk, "cold", "C", -1), "ColdRingC"),
+                                   (5, "RingSupplyIdleBar", day_cell(bk, "hot", "C", 0), "HotRingC")):
         fc = col(c0)
         formula = (f'=IF({rng_a}<=NeedleCount,FS_MANIFOLD_SPLIT({rng_b},NeedleLengthMm,{supply},{case},'
                    f'RingBoreMm,RingDiaMm,FuelName,{temp},OilPct),"")')
         ws[f"{fc}{ring_first}"] = ArrayFormula(f"{fc}{ring_first}:{fc}{ring_last}", formula)
-        _formats(ws, ring_first, ring_last, ("0.00",), first_col=c0)
+        column_formats(ws, ring_first, ring_last, ("0.00",), first_col=c0)
         for k in range(MAX_NEEDLES):
             r = ring_first + k
             w.cell(r, c0 + 1, f'=IF(A{r}>NeedleCount,"",({fc}{r}/AVERAGE({fc}${ring_first}:{fc}${ring_last})-1)*100)',
@@ -514,14 +429,50 @@ def sheet_needles(wb, bk):
              "=" + dev.format(c="D", a=ring_first, b=ring_last), "%", number_format="0.00")
     w.result("largest deviation from the mean, hot day idle",
              "=" + dev.format(c="F", a=ring_first, b=ring_last), "%", number_format="0.00")
-    _notes(w, bk, "validity notes of the ring, cold day full power", "FS_MANIFOLD_SPLIT",
-           f"{rng_b},NeedleLengthMm,RingSupplyBar,{_day(bk, 'cold', 'C', -1)},RingBoreMm,RingDiaMm,FuelName,"
+    notes_cell(w, bk, "validity notes of the ring, cold day full power", "FS_MANIFOLD_SPLIT",
+           f"{rng_b},NeedleLengthMm,RingSupplyBar,{day_cell(bk, 'cold', 'C', -1)},RingBoreMm,RingDiaMm,FuelName,"
            f"ColdRingC,OilPct")
-    _add(bk, "needles", "ring: largest needle deviation, cold day full power [%]", f"=Needles!$B${w.row - 3}", "%",
+    add_summary(bk, "needles", "ring: largest needle deviation, cold day full power [%]", f"=Needles!$B${w.row - 3}", "%",
          "cold day, full power", "0.00")
-    _add(bk, "needles", "ring: largest needle deviation, hot day idle [%]", f"=Needles!$B${w.row - 2}", "%",
+    add_summary(bk, "needles", "ring: largest needle deviation, hot day idle [%]", f"=Needles!$B${w.row - 2}", "%",
          "hot day, idle", "0.00")
 
+    _needles_bench(ws, w, bk, n, ring_first, r_bench_mean, r_source)
+
+    w.heading("Tolerance study at full power, cold day", sub=True)
+    w.note("Tubing bought to the standard: bores drawn between the ISO 9626 minimum and the minimum plus twice "
+           "the tolerance (the typical bore at the centre), lengths within their tolerance; the bench table "
+           "above shows the spread of the needles actually measured.")
+    r = w.row
+    formula = (f"=FS_TOLERANCE_SPREAD(NeedleGauge,NeedleWall,NeedleCount,NeedleLengthMm,C{last},"
+               f"FuelName,ColdRingC,BoreTolMm,LengthTolMm,2000,1,OilPct,TypicalBoreMm)")
+    ws[f"A{r}"] = ArrayFormula(f"A{r}:C{r + 12}", formula)
+    for k, fmt in enumerate(("0.0000", "0.0000", "0.00", "0.00", "0.00", "0.00", "0.00", "0.00", "0.0", "0.0",
+                             "0.000", "0", None)):
+        if fmt:
+            ws.cell(r + k, 2).number_format = fmt
+    add_summary(bk, "needles", "tolerance: spread between needles (CV) [%]", f"=Needles!$B${r + 4}", "%",
+         "cold day, full power", "0.00")
+    w.row = r + 13
+
+    chart = ScatterChart()
+    chart.title = "Needle flow against pressure drop"
+    chart.x_axis.title = "pressure drop [bar]"
+    chart.y_axis.title = "flow per needle [g/min]"
+    chart.style = 13
+    a, b = needle_chart
+    xs = Reference(ws, min_col=1, min_row=a, max_row=b)
+    for colno, name, colour in ((2, "cold day", COLD), (3, "hot day", HOT)):
+        ser = Series(Reference(ws, min_col=colno, min_row=a, max_row=b), xs, title=name)
+        colour_series(ser, colour)
+        chart.series.append(ser)
+    chart.x_axis.scaling.min, chart.y_axis.scaling.min = 0, 0
+    chart.height, chart.width = 8, 14
+    ws.add_chart(chart, "L3")
+
+
+def _needles_bench(ws, w, bk, n, ring_first, r_bench_mean, r_source):
+    """The bench-test table; its bores feed the ring's bore column and the bore used."""
     w.heading("Bench test of the needles", sub=True)
     (vol_time, dp, temp), vols = n["bench"]
     w.input("collection time", "BenchTimeS", vol_time, "s", low=1, high=3600)
@@ -548,7 +499,7 @@ def sheet_needles(wb, bk):
     counted = f"C{first_b}:C{last_b}"
     ws[f"F{first_b}"] = ArrayFormula(f"F{first_b}:G{last_b}",
                                      f'=IF(ISNUMBER({counted}),FS_ODD_NEEDLES({counted},5),"")')
-    _formats(ws, first_b, last_b, ("0.00",), first_col=6)
+    column_formats(ws, first_b, last_b, ("0.00",), first_col=6)
     bk.verdict_ranges.append(("Needles", f"G{first_b}:G{last_b}"))
     w.row = last_b + 1
     bores = f"E{first_b}:E{last_b}"
@@ -556,37 +507,6 @@ def sheet_needles(wb, bk):
     ws[f"B{r_source}"] = (f'=IF(ISNUMBER(MeasuredBoreMm),"the measured bore typed above",IF(ISNUMBER(BenchBoreMm),'
                           f'"bench test: mean of "&COUNT({bores})&" needles","typical: ISO 9626 minimum + '
                           f'tolerance"))')
-
-    w.heading("Tolerance study at full power, cold day", sub=True)
-    w.note("Tubing bought to the standard: bores drawn between the ISO 9626 minimum and the minimum plus twice "
-           "the tolerance (the typical bore at the centre), lengths within their tolerance; the bench table "
-           "above shows the spread of the needles actually measured.")
-    r = w.row
-    formula = (f"=FS_TOLERANCE_SPREAD(NeedleGauge,NeedleWall,NeedleCount,NeedleLengthMm,C{last},"
-               f"FuelName,ColdRingC,BoreTolMm,LengthTolMm,2000,1,OilPct,TypicalBoreMm)")
-    ws[f"A{r}"] = ArrayFormula(f"A{r}:C{r + 12}", formula)
-    for k, fmt in enumerate(("0.0000", "0.0000", "0.00", "0.00", "0.00", "0.00", "0.00", "0.00", "0.0", "0.0",
-                             "0.000", "0", None)):
-        if fmt:
-            ws.cell(r + k, 2).number_format = fmt
-    _add(bk, "needles", "tolerance: spread between needles (CV) [%]", f"=Needles!$B${r + 4}", "%",
-         "cold day, full power", "0.00")
-    w.row = r + 13
-
-    chart = ScatterChart()
-    chart.title = "Needle flow against pressure drop"
-    chart.x_axis.title = "pressure drop [bar]"
-    chart.y_axis.title = "flow per needle [g/min]"
-    chart.style = 13
-    a, b = needle_chart
-    xs = Reference(ws, min_col=1, min_row=a, max_row=b)
-    for colno, name, colour in ((2, "cold day", COLD), (3, "hot day", HOT)):
-        ser = Series(Reference(ws, min_col=colno, min_row=a, max_row=b), xs, title=name)
-        _colour(ser, colour)
-        chart.series.append(ser)
-    chart.x_axis.scaling.min, chart.y_axis.scaling.min = 0, 0
-    chart.height, chart.width = 8, 14
-    ws.add_chart(chart, "L3")
 
 
 def sheet_vaporiser(wb, bk):
@@ -621,14 +541,14 @@ def sheet_vaporiser(wb, bk):
         for i in range(bk.points):
             r = w.row
             rows.append(r)
-            air, p3, t3 = _day(bk, day, "B", i), _day(bk, day, "D", i), _day(bk, day, "E", i)
-            w.cell(r, 1, f"={_eng(bk, 'A', i)}")
+            air, p3, t3 = day_cell(bk, day, "B", i), day_cell(bk, day, "D", i), day_cell(bk, day, "E", i)
+            w.cell(r, 1, f"={engine_cell(bk, 'A', i)}")
             w.cell(r, 2, label)
             w.cell(r, 3, f"={air}*TubeShare/NeedleCount", number_format="0.000")
             # Δp/p = (m / A_eff)² R T / (2 p²): orifice flow m = A_eff √(2 ρ Δp), ρ = p / (R T)
-            w.cell(r, 4, f"=100*({air}/1000/(LinerAreaMm2*0.000001))^2*{_R_AIR}*({t3}+273.15)/(2*({p3}*100000)^2)",
+            w.cell(r, 4, f"=100*({air}/1000/(LinerAreaMm2*0.000001))^2*{R_AIR}*({t3}+273.15)/(2*({p3}*100000)^2)",
                    number_format="0.00")
-            w.cell(r, 5, f"={_day(bk, day, 'H', i)}", number_format="0.00")
+            w.cell(r, 5, f"={day_cell(bk, day, 'H', i)}", number_format="0.00")
             w.cell(r, 6, f"={pre}RingC", number_format="0.0")
             for j, (item, _, fmt) in enumerate(items, start=7):
                 w.cell(r, j, f"=FS_VAPORISER(TubeBoreMm,TubeLengthMm,E{r},C{r},{p3},{t3},WallC,FuelName,OilPct,"
@@ -656,23 +576,28 @@ def sheet_vaporiser(wb, bk):
     bk.verdict_ranges.append(("Vaporiser", f"B{w.row - 1}"))
     w.result("liner Δp, least and most over both days",
              f'=ROUND(MIN(D{first}:D{last}),2)&" to "&ROUND(MAX(D{first}:D{last}),2)', "% of case abs")
-    _add(bk, "vaporiser", "tube size", "=TubeSize")
-    _add(bk, "vaporiser", "vaporiser: least margin above the dew point [K]", "=VapWorstMarginK", "K",
+    add_summary(bk, "vaporiser", "tube size", "=TubeSize")
+    add_summary(bk, "vaporiser", "vaporiser: least margin above the dew point [K]", "=VapWorstMarginK", "K",
          "=VapWorstCorner", "0.0")
-    _add(bk, "vaporiser", "vaporised at that corner [%]", f"=Vaporiser!$B${w.row - 3}", "%", "=VapWorstCorner",
+    add_summary(bk, "vaporiser", "vaporised at that corner [%]", f"=Vaporiser!$B${w.row - 3}", "%", "=VapWorstCorner",
          "0.0")
-    _add(bk, "vaporiser", "vaporiser verdict at that corner", f"=Vaporiser!$B${w.row - 2}", "", "=VapWorstCorner")
-    _add(bk, "vaporiser", "vaporised at idle, cold day [%]", f"=Vaporiser!$G${bk.vap_rows['cold'][0]}", "%",
+    add_summary(bk, "vaporiser", "vaporiser verdict at that corner", f"=Vaporiser!$B${w.row - 2}", "", "=VapWorstCorner")
+    add_summary(bk, "vaporiser", "vaporised at idle, cold day [%]", f"=Vaporiser!$G${bk.vap_rows['cold'][0]}", "%",
          "cold day, idle", "0.0")
-    _add(bk, "vaporiser", "vaporised at full power, cold day [%]", f"=Vaporiser!$G${bk.vap_rows['cold'][-1]}", "%",
+    add_summary(bk, "vaporiser", "vaporised at full power, cold day [%]", f"=Vaporiser!$G${bk.vap_rows['cold'][-1]}", "%",
          "cold day, full power", "0.0")
-    _add(bk, "vaporiser", "vaporiser verdict at full power, cold day", f"=Vaporiser!${verdict_col}${bk.vap_rows['cold'][-1]}",
+    add_summary(bk, "vaporiser", "vaporiser verdict at full power, cold day", f"=Vaporiser!${verdict_col}${bk.vap_rows['cold'][-1]}",
          "", "cold day, full power")
-    _add(bk, "vaporiser", "liner Δp at idle, cold day [% of case abs]", f"=Vaporiser!$D${bk.vap_rows['cold'][0]}",
+    add_summary(bk, "vaporiser", "liner Δp at idle, cold day [% of case abs]", f"=Vaporiser!$D${bk.vap_rows['cold'][0]}",
          "%", "cold day, idle", "0.00")
-    _add(bk, "vaporiser", "liner Δp at full power, cold day [% of case abs]",
+    add_summary(bk, "vaporiser", "liner Δp at full power, cold day [% of case abs]",
          f"=Vaporiser!$D${bk.vap_rows['cold'][-1]}", "%", "cold day, full power", "0.00")
 
+    _vaporiser_corners(ws, w, bk)
+
+
+def _vaporiser_corners(ws, w, bk):
+    """The remaining items, validity notes and profiles at the tube's two bounding corners, with the charts."""
     # the remaining items at the two corners that bound the tube: cold-day idle and hot-day full power
     w.heading("More of the tube at its two bounding corners", sub=True)
     corners = (("cold day, idle", bk.vap_rows["cold"][0], "cold", 0),
@@ -686,15 +611,15 @@ def sheet_vaporiser(wb, bk):
         r = w.row
         w.cell(r, 1, label)
         for j, (_, vr, day, i) in enumerate(corners, start=2):
-            w.cell(r, j, f"=FS_VAPORISER(TubeBoreMm,TubeLengthMm,E{vr},C{vr},{_day(bk, day, 'D', i)},"
-                         f"{_day(bk, day, 'E', i)},WallC,FuelName,OilPct,\"{item}\",TubeShape)", number_format=fmt)
+            w.cell(r, j, f"=FS_VAPORISER(TubeBoreMm,TubeLengthMm,E{vr},C{vr},{day_cell(bk, day, 'D', i)},"
+                         f"{day_cell(bk, day, 'E', i)},WallC,FuelName,OilPct,\"{item}\",TubeShape)", number_format=fmt)
         w.cell(r, 4, unit)
         w.row += 1
     r = w.row
     w.cell(r, 1, "validity notes").alignment = Alignment(vertical="top")
     for j, (_, vr, day, i) in enumerate(corners, start=2):
-        c = w.cell(r, j, f'=FS_NOTES("FS_VAPORISER",TubeBoreMm,TubeLengthMm,E{vr},C{vr},{_day(bk, day, "D", i)},'
-                         f'{_day(bk, day, "E", i)},WallC,FuelName,OilPct,"verdict",TubeShape)')
+        c = w.cell(r, j, f'=FS_NOTES("FS_VAPORISER",TubeBoreMm,TubeLengthMm,E{vr},C{vr},{day_cell(bk, day, "D", i)},'
+                         f'{day_cell(bk, day, "E", i)},WallC,FuelName,OilPct,"verdict",TubeShape)')
         c.alignment = Alignment(wrap_text=True, vertical="top")
         bk.notes_ranges.append(("Vaporiser", f"{col(j)}{r}"))
     ws.row_dimensions[r].height = 45
@@ -706,11 +631,11 @@ def sheet_vaporiser(wb, bk):
         w.heading(f"Along the tube, {label}", sub=True)
         w.skip()  # the human headers go here, over the function's row of code names (hidden)
         r = w.row
-        formula = (f"=FS_VAPORISER_PROFILE(TubeBoreMm,TubeLengthMm,E{vr},C{vr},{_day(bk, day, 'D', i)},"
-                   f"{_day(bk, day, 'E', i)},WallC,FuelName,OilPct,11,TubeShape)")
+        formula = (f"=FS_VAPORISER_PROFILE(TubeBoreMm,TubeLengthMm,E{vr},C{vr},{day_cell(bk, day, 'D', i)},"
+                   f"{day_cell(bk, day, 'E', i)},WallC,FuelName,OilPct,11,TubeShape)")
         ws[f"A{r}"] = ArrayFormula(f"A{r}:E{r + 11}", formula)
-        _code_header(ws, r, ["position [mm]", "gas [°C]", "wall [°C]", "vaporised [%]", "velocity [m/s]"])
-        _formats(ws, r + 1, r + 11, ("0", "0.0", "0", "0.0", "0.0"))
+        code_header(ws, r, ["position [mm]", "gas [°C]", "wall [°C]", "vaporised [%]", "velocity [m/s]"])
+        column_formats(ws, r + 1, r + 11, ("0", "0.0", "0", "0.0", "0.0"))
         profiles.append((label, r))
         w.row = r + 12
     for title, colno, axis in (("Vaporised fuel along the tube", 4, "vaporised [%]"),
@@ -723,7 +648,7 @@ def sheet_vaporiser(wb, bk):
         for (label, r), colour in zip(profiles, (COLD, HOT)):
             xs = Reference(ws, min_col=1, min_row=r + 1, max_row=r + 11)
             ser = Series(Reference(ws, min_col=colno, min_row=r + 1, max_row=r + 11), xs, title=label)
-            _colour(ser, colour)
+            colour_series(ser, colour)
             chart.series.append(ser)
         chart.x_axis.scaling.min = 0
         if colno == 4:
@@ -740,7 +665,7 @@ def sheet_combustor(wb, bk):
            "area). The primary zone gets the vaporiser tubes' air and the primary holes'; the fuel burned is the "
            "fuel flow times the combustion efficiency, as in the engine's fuel demand.")
     w.note(f"One row per zone name; the shares below are found by these names. An empty Cd is a plain hole "
-           f"({_CD_PLAIN}).")
+           f"({CD_PLAIN}).")
     w.header_row(["zone", "holes", "diameter [mm]", "Cd (empty: plain hole)", "effective area [mm²]", "zone",
                   "air share [-]"])
     first = w.row
@@ -752,12 +677,12 @@ def sheet_combustor(wb, bk):
         w.cell(r, 2, "=NeedleCount" if tube else count, is_input=not tube)
         w.cell(r, 3, "=TubeBoreMm" if tube else dia, is_input=not tube, number_format="0.00")
         w.cell(r, 4, "=TubeCd" if tube else None, is_input=not tube)
-        w.cell(r, 5, f"=B{r}*IF(ISNUMBER(D{r}),D{r},{_CD_PLAIN})*PI()/4*C{r}^2", number_format="0.0")
+        w.cell(r, 5, f"=B{r}*IF(ISNUMBER(D{r}),D{r},{CD_PLAIN})*PI()/4*C{r}^2", number_format="0.0")
     last = first + len(openings) - 1
     ws[f"F{first}"] = ArrayFormula(f"F{first}:G{last}",
                                    f"=FS_ZONE_AIR(B{first}:B{last},C{first}:C{last},D{first}:D{last},"
                                    f"A{first}:A{last})")
-    _formats(ws, first, last, ("0.000",), first_col=7)
+    column_formats(ws, first, last, ("0.000",), first_col=7)
     w.row = last + 1
     # found by the zone names typed in column A (one row per zone), whose order FS_ZONE_AIR keeps
     share = f"INDEX($G${first}:$G${last},MATCH(\"{{}}\",$A${first}:$A${last},0))"
@@ -767,7 +692,7 @@ def sheet_combustor(wb, bk):
     w.result("primary share (tubes + primary holes)", "=TubeShare+" + share.format("primary"), "-",
              name="PrimaryShare", number_format="0.000")
     w.result("secondary share", "=" + share.format("secondary"), "-", name="SecondaryShare", number_format="0.000")
-    _add(bk, "combustor", "primary-zone air share [-]", "=PrimaryShare", "-", "", "0.000")
+    add_summary(bk, "combustor", "primary-zone air share [-]", "=PrimaryShare", "-", "", "0.000")
     w.heading("From idle to full power, both days", sub=True)
     w.note("Primary φ counts all the fuel; the secondary zone and the exit count the fuel burned (fuel x "
            "combustion efficiency), so the exit comes back to the turbine inlet the fuel demand was set for.")
@@ -780,8 +705,8 @@ def sheet_combustor(wb, bk):
         for i in range(bk.points):
             r = w.row
             rows.append(r)
-            air, t3, p3, fuel = (_day(bk, day, c, i) for c in "BEDG")
-            w.cell(r, 1, f"={_eng(bk, 'A', i)}")
+            air, t3, p3, fuel = (day_cell(bk, day, c, i) for c in "BEDG")
+            w.cell(r, 1, f"={engine_cell(bk, 'A', i)}")
             w.cell(r, 2, label)
             w.cell(r, 3, f"={fuel}*CombustionEff", number_format="0.0")
             w.cell(r, 4, f"=FS_ZONE_PHI({fuel},{air},PrimaryShare,FuelName)", number_format="0.000")
@@ -791,17 +716,17 @@ def sheet_combustor(wb, bk):
             # hot stream: the secondary zone's gas (its air plus the fuel burned), mixed with the dilution air
             w.cell(r, 8, f"=FS_MIX_TEMP(G{r},{air}*(PrimaryShare+SecondaryShare)+C{r}/60,{t3},{air}*(1-PrimaryShare-"
                          f"SecondaryShare),C{r}/60/({air}*(PrimaryShare+SecondaryShare)),FuelName)", number_format="0")
-            w.cell(r, 9, f"={_day(bk, day, 'F', i)}", number_format="0")
+            w.cell(r, 9, f"={day_cell(bk, day, 'F', i)}", number_format="0")
             w.cell(r, 10, f"=H{r}-I{r}", number_format="0.0")
             w.row += 1
         bk.comb_rows[day] = rows
     op_last = w.row - 1
     full_cold = bk.comb_rows["cold"][-1]
-    _notes(w, bk, "validity notes, primary flame at cold-day full power", "FS_FLAME_TEMP",
-           f"FuelName,D{full_cold},{_day(bk, 'cold', 'E', -1)},{_day(bk, 'cold', 'D', -1)}")
-    _add(bk, "combustor", "primary flame at full power, cold day [°C]", f"=Combustor!$E${full_cold}", "°C",
+    notes_cell(w, bk, "validity notes, primary flame at cold-day full power", "FS_FLAME_TEMP",
+           f"FuelName,D{full_cold},{day_cell(bk, 'cold', 'E', -1)},{day_cell(bk, 'cold', 'D', -1)}")
+    add_summary(bk, "combustor", "primary flame at full power, cold day [°C]", f"=Combustor!$E${full_cold}", "°C",
          "cold day, full power", "0")
-    _add(bk, "combustor", "primary φ at full power, cold day", f"=Combustor!$D${full_cold}", "-",
+    add_summary(bk, "combustor", "primary φ at full power, cold day", f"=Combustor!$D${full_cold}", "-",
          "cold day, full power", "0.000")
 
     bars = BarChart()
@@ -823,235 +748,11 @@ def sheet_combustor(wb, bk):
     rows = bk.comb_rows["cold"]
     for (colno, name), colour in zip(((5, "primary flame"), (7, "secondary zone"), (8, "exit")), PALETTE):
         ser = Series(Reference(ws, min_col=colno, min_row=rows[0], max_row=rows[-1]), speeds, title=name)
-        _colour(ser, colour)
+        colour_series(ser, colour)
         temps.series.append(ser)
     temps.x_axis.scaling.min, temps.y_axis.scaling.min = 0, 0
     temps.height, temps.width = 8, 14
     ws.add_chart(temps, "M18")
-
-
-def sheet_pump(wb, bk):
-    p = bk.s.PUMP
-    ws = wb.create_sheet("Pump")
-    w = SheetWriter(wb, ws, label_width=52)
-    w.heading("Fuel lines and pump")
-    w.input("line bore", "LineBoreMm", p["line_bore_mm"], "mm", low=0.5, high=20)
-    w.input("line length", "LineLengthM", p["line_length_m"], "m", low=0.01, high=20)
-    w.input("filter, valve and fitting loss coefficients (sum)", "LineK", p["k_total"], "-", low=0, high=500)
-    w.input("injectors above the tank", "HeadM", p["head_m"], "m", low=-5, high=5)
-    w.input("manoeuvre load factor", "GLoad", p["g_load"], "g", low=0, high=20)
-    w.input("margin on the pressure needed", "MarginPct", p["margin_pct"], "%", low=0, high=200)
-    w.input("battery at its cut-off voltage, under load", "BatteryV", p["battery_v"], "V", low=1, high=60)
-    w.input("battery fully charged, under load", "BatteryFullV", p.get("battery_full_v", p["battery_v"]), "V",
-            low=1, high=60)
-    w.input("motor starting voltage (lowest that turns the pump)", "MotorStartV", p.get("motor_start_v", 0.5), "V",
-            low=0, high=60)
-    w.input("motor winding resistance (measured across its terminals; optional)", "WindingOhm", p.get("winding_ohm"),
-            "Ω", low=0, high=100,
-            comment="With it, a bench test at one fuel temperature gives the voltages at the envelope's "
-                    "temperatures: the fit parts the motor's resistance loss from the pump's slip. Assumed: the "
-                    "slip is laminar (slip flow goes as 1/viscosity, Wilson 1949) and the resistance holds at every "
-                    "temperature (copper rises about 0.4 %/K: measure it at the running temperature). Without it, "
-                    "test at two or more fuel temperatures, or the fit holds only at the test temperature.")
-    w.input("motor speed constant kv (optional)", "MotorKv", p.get("kv_rpm_per_v"), "rpm/V", low=1, high=100000,
-            comment="From the motor's data sheet; gives the pump's displacement per revolution in the fit.")
-    w.heading("Bench test points of the pump", sub=True)
-    w.note(f"Up to {PUMP_TEST_ROWS} points, from the top row down; one fuel temperature is enough with the winding "
-           "resistance above.")
-    w.header_row(["point", "flow [g/min]", "outlet [bar gauge]", "volts [V]", "fuel [°C]"])
-    first = w.row
-    tests = p["tests"]
-    for k in range(PUMP_TEST_ROWS):
-        r = first + k
-        w.cell(r, 1, k + 1)
-        row = tests[k] if k < len(tests) else (None,) * 4
-        for j, v in enumerate(row, start=2):
-            w.cell(r, j, v, is_input=True)
-    last = first + PUMP_TEST_ROWS - 1
-    w.row = last + 1
-    w.heading("Pump fit", sub=True)
-    w.skip()  # human headers over the fit's row of labels (kept, hidden: the pump functions read them)
-    r = w.row
-    formula = (f"=FS_PUMP_FIT(B{first}:B{last},C{first}:C{last},D{first}:D{last},FuelName,E{first}:E{last},"
-               f'IF(ISNUMBER(WindingOhm),WindingOhm,""),IF(ISNUMBER(MotorKv),MotorKv,""),OilPct)')
-    # an empty optional cell goes in as "" (the default): LibreOffice would pass an empty cell as 0
-    ws[f"A{r}"] = ArrayFormula(f"A{r}:O{r + 1}", formula)
-    w.define("PumpFit", f"$A${r}:$O${r + 1}")
-    _code_header(ws, r, ["flow per volt [mL/min/V]", "winding [Ω]", "friction current [A]", "slip [mm³]",
-                         "intercept [V]", "pressure term [V/bar]", "fit viscosity [mPa·s]", "motor k [mN·m/A]",
-                         "displacement [mL/rev]", "RMS error [V]", "R² [-]", "condition [-]", "points",
-                         "lowest tested [V]", "highest tested [V]"])
-    _formats(ws, r + 1, r + 1, ("0.00", "0.000", "0.000", "0.00E+00", "0.000", "0.0000", "0.000", "0.00", "0.000",
-                                "0.000", "0.00000", "0.0", "0", "0.0", "0.0"))
-    for j in range(1, 16):
-        ws.cell(r + 1, j).alignment = Alignment(horizontal="right", wrap_text=True, vertical="top")
-    w.row = r + 2
-    w.heading("Along the operating line, both days", sub=True)
-    w.note("Line losses, pressure needed and voltage at the fuel's temperature at the pump (Envelope sheet); "
-           "needle drops from the Needles sheet at the fuel's temperature at the ring.")
-    w.header_row(["point", "day", "fuel [g/min]", "case [bar gauge]", "needles [bar]", "line [bar]",
-                  "pump outlet needed [bar gauge]", "volts needed [V]", "headroom [V]", "check"])
-    op_first = w.row
-    bk.pump_rows = {}
-    for day, label, pre in DAYS:
-        rows = []
-        for i in range(bk.points):
-            r = w.row
-            rows.append(r)
-            w.cell(r, 1, f"={_eng(bk, 'A', i)}")
-            w.cell(r, 2, label)
-            w.cell(r, 3, f"={_day(bk, day, 'G', i)}", number_format="0.0")
-            w.cell(r, 4, f"={_day(bk, day, 'C', i)}", number_format="0.000")
-            w.cell(r, 5, f"=Needles!{'C' if day == 'cold' else 'G'}{bk.needle_rows[i]}", number_format="0.000")
-            w.cell(r, 6, f"=FS_LINE_DP(LineBoreMm,LineLengthM,C{r},FuelName,{pre}PumpC,LineK,OilPct)",
-                   number_format="0.000")
-            w.cell(r, 7, f"=FS_PUMP_NEED(C{r},D{r},E{r},F{r},HeadM,GLoad,MarginPct,FuelName,{pre}PumpC,OilPct)",
-                   number_format="0.000")
-            w.cell(r, 8, f"=FS_PUMP_VOLTS(PumpFit,C{r},G{r},FuelName,{pre}PumpC,OilPct)", number_format="0.00")
-            w.cell(r, 9, f"=BatteryV-H{r}", number_format="0.00")
-            w.cell(r, 10, f"=IF(ISNUMBER(H{r}),IF(I{r}>=0,\"ok\",\"fails: short by \"&ROUND(-I{r},2)&\" V\"),H{r})")
-            w.row += 1
-        bk.pump_rows[day] = rows
-    op_last = w.row - 1
-    bk.verdict_ranges.append(("Pump", f"J{op_first}:J{op_last}"))
-    rng = {c: f"${c}${op_first}:${c}${op_last}" for c in "ABGHIJ"}
-    mx = f"MATCH(MAX({rng['H']}),{rng['H']},0)"
-    w.result("most voltage needed", f"=MAX({rng['H']})", "V", name="PumpVoltsMax", number_format="0.00")
-    w.result("  at", f'=INDEX({rng["B"]},{mx})&", "&INDEX({rng["A"]},{mx})', "", name="PumpVoltsCorner")
-    w.result("  headroom there", f"=INDEX({rng['I']},{mx})", "V", number_format="0.00")
-    r_head = w.row - 1
-    w.result("  check there", f"=INDEX({rng['J']},{mx})", "")
-    bk.verdict_ranges.append(("Pump", f"B{w.row - 1}"))
-    full = bk.pump_rows["cold"][-1]
-    _notes(w, bk, "validity notes, cold day full power", "FS_PUMP_VOLTS",
-           f"PumpFit,C{full},G{full},FuelName,ColdPumpC,OilPct")
-    cold_idle, hot_idle = bk.pump_rows["cold"][0], bk.pump_rows["hot"][0]
-
-    w.heading("Pump setting: motor voltage and PWM duty", sub=True)
-    w.note("A PWM controller gives the motor the battery's voltage times the duty (average output of a chopper: "
-           "Mohan, Undeland & Robbins, Power Electronics 3rd ed. §7-5). The duty is shown for a charged battery "
-           "and at its cut-off; more than 100 % cannot be given, and below the motor's starting voltage the pump "
-           "may stall at the start or stop at idle.")
-    w.header_row(["corner", "motor voltage [V]", "duty, charged [%]", "duty, at cut-off [%]", "check"])
-    pwm_first = w.row
-    pwm = {}
-    for day, label, _ in DAYS:
-        for i, point in ((0, "idle"), (bk.points - 1, "full power")):
-            r = w.row
-            pwm[(day, i)] = r
-            w.cell(r, 1, f"{label}, {point}")
-            w.cell(r, 2, f"=H{bk.pump_rows[day][i]}", number_format="0.00")
-            w.cell(r, 3, f'=IF(ISNUMBER(B{r}),B{r}/BatteryFullV*100,"")', number_format="0")
-            w.cell(r, 4, f'=IF(ISNUMBER(B{r}),B{r}/BatteryV*100,"")', number_format="0")
-            w.cell(r, 5, f'=IF(NOT(ISNUMBER(B{r})),B{r},IF(D{r}>100,"fails: needs "&ROUND(D{r},0)&" % duty at '
-                         f'cut-off",IF(B{r}<MotorStartV,"marginal: below the motor\'s starting voltage","ok")))')
-            w.row += 1
-    bk.verdict_ranges.append(("Pump", f"E{pwm_first}:E{w.row - 1}"))
-    _add(bk, "pump", "pump outlet needed, highest [bar gauge]", f"=MAX(Pump!{rng['G']})", "bar gauge",
-         _corner_of("Pump", rng["G"], rng["A"], rng["B"], "MAX"), "0.000")
-    _add(bk, "pump", "pump outlet needed at idle, cold day [bar gauge]", f"=Pump!$G${cold_idle}", "bar gauge",
-         "cold day, idle", "0.000")
-    _add(bk, "pump", "pump outlet needed at idle, hot day [bar gauge]", f"=Pump!$G${hot_idle}", "bar gauge",
-         "hot day, idle", "0.000")
-    _add(bk, "pump", "pump volts, most needed [V]", "=PumpVoltsMax", "V", "=PumpVoltsCorner", "0.00")
-    _add(bk, "pump", "pump volts at idle, hot day [V]", f"=Pump!$H${hot_idle}", "V", "hot day, idle", "0.00")
-    _add(bk, "pump", "battery headroom at the most voltage [V]", f"=Pump!$B${r_head}", "V", "=PumpVoltsCorner",
-         "0.00")
-    _add(bk, "pump", "pump check at the most voltage", f"=Pump!$B${r_head + 1}", "", "=PumpVoltsCorner")
-    _add(bk, "pump", "PWM duty at full power, cold day, battery at cut-off [%]", f"=Pump!$D${pwm[('cold', bk.points - 1)]}",
-         "%", "cold day, full power", "0")
-    _add(bk, "pump", "PWM duty at idle, hot day, battery charged [%]", f"=Pump!$C${pwm[('hot', 0)]}", "%",
-         "hot day, idle", "0")
-    _add(bk, "pump", "PWM check at full power, cold day", f"=Pump!$E${pwm[('cold', bk.points - 1)]}", "",
-         "cold day, full power")
-    _add(bk, "pump", "PWM check at idle, hot day", f"=Pump!$E${pwm[('hot', 0)]}", "", "hot day, idle")
-
-    w.heading("Pump curves at several voltages, cold day (for the chart)", sub=True)
-    volts = (3.0, 5.0, 7.0, 9.0)
-    w.header_row(["outlet [bar gauge]"] + [f"flow at {v:g} V [g/min]" for v in volts])
-    c_first = w.row
-    for k, pr in enumerate((0.0, 1.0, 2.0, 3.0, 4.0, 5.0, 6.0)):
-        r = w.row
-        w.cell(r, 1, pr, is_input=True)
-        for j, v in enumerate(volts, start=2):
-            w.cell(r, j, f"=FS_PUMP_FLOW(PumpFit,{v},A{r},FuelName,ColdPumpC,OilPct)", number_format="0.0")
-        w.row += 1
-    c_last = w.row - 1
-    chart = ScatterChart()
-    chart.title = "Pump curves and the system's need (cold day)"
-    chart.x_axis.title = "fuel flow [g/min]"
-    chart.y_axis.title = "pump outlet [bar gauge]"
-    chart.style = 13
-    ys = Reference(ws, min_col=1, min_row=c_first, max_row=c_last)
-    for (j, v), colour in zip(enumerate(volts, start=2), PALETTE):
-        ser = Series(ys, Reference(ws, min_col=j, min_row=c_first, max_row=c_last), title=f"pump at {v:g} V")
-        _colour(ser, colour, marker="none")
-        chart.series.append(ser)
-    cold = bk.pump_rows["cold"]
-    need = Series(Reference(ws, min_col=7, min_row=cold[0], max_row=cold[-1]),
-                  Reference(ws, min_col=3, min_row=cold[0], max_row=cold[-1]), title="system need")
-    _colour(need, COLD, marker="diamond")
-    need.marker.size = 8
-    chart.series.append(need)
-    chart.x_axis.scaling.min, chart.y_axis.scaling.min = 0, 0
-    chart.x_axis.number_format = "0"
-    chart.x_axis.majorUnit = 50
-    chart.height, chart.width = 11, 20
-    ws.add_chart(chart, "Q3")
-
-
-def sheet_gas(wb, bk):
-    g = bk.s.GAS
-    ws = wb.create_sheet("Gas start")
-    w = SheetWriter(wb, ws, label_width=58)
-    w.heading("Gas start")
-    w.note("Checked with the cold canister (Envelope sheet): the least pressure it gives.")
-    w.input("gas", "GasName", g["gas"], "", choices=("propane", "lpg-70-30", "lpg-60-40", "butane", "isobutane"))
-    w.result("canister temperature at the start (cold day)", "=ColdCanC", "°C", name="CanisterC", number_format="0.0")
-    w.result("canister pressure", "=FS_CANISTER_PRESSURE(GasName,CanisterC)", "bar gauge", name="CanisterBar",
-             number_format="0.00")
-    w.input("pressure before the jet (regulated)", "JetUpBar", g["line_bar_abs"], "bar abs", low=0.1, high=30)
-    w.input("jet bore", "JetBoreMm", g["jet_bore_mm"], "mm", low=0.05, high=5)
-    w.input("jet length", "JetLengthMm", g["jet_length_mm"], "mm", low=0, high=500)
-    w.result("gas flow at the start (into the case at the cold day's idle pressure)",
-             f"=FS_GAS_JET_FLOW(JetBoreMm,JetLengthMm,JetUpBar,{_day(bk, 'cold', 'D', 0)},GasName,CanisterC)",
-             "g/min", name="GasFlow", number_format="0.00")
-    w.result("regulator check",
-             "=IF(CanisterBar+ColdAmbBar>JetUpBar,\"ok\",\"fails: canister below regulated pressure\")",
-             "", name="GasCheck")
-    bk.verdict_ranges.append(("Gas start", f"B{w.row - 1}"))
-    _add(bk, "gas", "gas flow at the start [g/min]", f"='Gas start'!$B${w.row - 2}", "g/min", "cold canister",
-         "0.00")
-    _add(bk, "gas", "gas start check", f"='Gas start'!$B${w.row - 1}", "", "cold canister")
-    _notes(w, bk, "validity notes of the gas flow", "FS_GAS_JET_FLOW",
-           f"JetBoreMm,JetLengthMm,JetUpBar,{_day(bk, 'cold', 'D', 0)},GasName,CanisterC")
-    w.heading("Canister over a run", sub=True)
-    w.input("liquid gas in the canister", "GasLiquidG", g["liquid_g"], "g", low=1, high=20000)
-    w.input("empty canister mass", "GasShellG", g["shell_g"], "g", low=0, high=20000)
-    w.input("length of the run", "GasMinutes", g["flow_minutes"], "min", low=0.1, high=600)
-    w.skip()  # human headers over the table's row of code names (hidden)
-    r = w.row
-    formula = "=FS_CANISTER_CHILL(GasName,GasLiquidG,GasShellG,GasFlow,GasMinutes,CanisterC,\"steel\",JetUpBar,11)"
-    ws[f"A{r}"] = ArrayFormula(f"A{r}:F{r + 11}", formula)
-    _code_header(ws, r, ["time [min]", "canister [°C]", "pressure [bar abs]", "liquid left [g]",
-                         "heat from the air [W]", "pressure enough?"])
-    _formats(ws, r + 1, r + 11, ("0.0", "0.0", "0.00", "0.0", "0.00"))
-    bk.verdict_ranges.append(("Gas start", f"F{r + 1}:F{r + 11}"))
-    _add(bk, "gas", "canister pressure at the end of the run [bar abs]", f"='Gas start'!$C${r + 11}", "bar abs",
-         "cold canister", "0.00")
-    w.row = r + 12
-    chart = ScatterChart()
-    chart.title = "Canister pressure over the run (cold canister)"
-    chart.x_axis.title = "minutes"
-    chart.y_axis.title = "pressure [bar abs]"
-    chart.style = 13
-    ser = Series(Reference(ws, min_col=3, min_row=r + 1, max_row=r + 11),
-                 Reference(ws, min_col=1, min_row=r + 1, max_row=r + 11), title="canister")
-    _colour(ser, COLD)
-    chart.series.append(ser)
-    chart.x_axis.scaling.min, chart.y_axis.scaling.min = 0, 0
-    chart.height, chart.width = 7.5, 13
-    ws.add_chart(chart, "H3")
 
 
 def sheet_summary(wb, bk):
@@ -1129,7 +830,7 @@ def build(path: Path | str = STARTER_PATH, compute: bool = True, scenario=None, 
     from fuelsys import demo
 
     wb = Workbook()
-    bk = _Book(scenario or demo)
+    bk = BookLayout(scenario or demo)
     bk.title_note = title_note
     for section in SECTIONS:
         section(wb, bk)
